@@ -1,0 +1,25 @@
+import type { DataSource } from 'typeorm'
+import PgBoss from 'pg-boss'
+import { MAIL_QUEUE, MAIL_MAX_ATTEMPTS } from '../modules/mail/mail.service.js'
+
+export const BOSS_SCHEMA = 'pgboss'
+
+/**
+ * Brings a database up to date: our TypeORM migrations, then pg-boss's own schema (pg-boss keeps and
+ * migrates its tables itself) and the queues the app uses.
+ */
+export async function migrateDatabase(dataSource: DataSource, databaseUrl: string): Promise<string[]> {
+  const applied = await dataSource.runMigrations({ transaction: 'each' })
+  const boss = new PgBoss({ connectionString: databaseUrl, schema: BOSS_SCHEMA, max: 1, supervise: false, schedule: false, migrate: true })
+  boss.on('error', () => {})
+  await boss.start()
+  await ensureQueues(boss)
+  await boss.stop({ graceful: false, wait: true })
+  return applied.map((m) => m.name)
+}
+
+export async function ensureQueues(boss: PgBoss): Promise<void> {
+  if (!(await boss.getQueue(MAIL_QUEUE))) {
+    await boss.createQueue(MAIL_QUEUE, { name: MAIL_QUEUE, retryLimit: MAIL_MAX_ATTEMPTS - 1, retryBackoff: true, retryDelay: 5 })
+  }
+}

@@ -1,0 +1,21 @@
+import passport from 'passport'
+import type { DataSource } from 'typeorm'
+import { User } from '../users/user.entity.js'
+
+/**
+ * Passport keeps only the user id in the session and reloads the account on every request, so a
+ * disabled account stops working at once. Credentials are checked in AuthService (with throttling
+ * and audit) and the session is established with `req.login`, which regenerates the session id.
+ */
+export function configurePassport(dataSource: DataSource): passport.PassportStatic {
+  const instance = new passport.Passport()
+  instance.serializeUser((user, done) => done(null, user.id))
+  instance.deserializeUser((id: string, done) => {
+    dataSource
+      .getRepository(User)
+      .findOneBy({ id })
+      .then((user) => done(null, user && !user.disabled ? { id: user.id, email: user.email, name: user.name, siteAdmin: user.siteAdmin } : false))
+      .catch((error) => done(error))
+  })
+  return instance as unknown as passport.PassportStatic
+}

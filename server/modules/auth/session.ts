@@ -1,0 +1,43 @@
+import type { NextFunction, Request, Response } from 'express'
+import session from 'express-session'
+import connectPgSimple from 'connect-pg-simple'
+import type { Pool } from 'pg'
+import { UnauthenticatedError } from '../../lib/errors.js'
+
+export interface SessionSettings {
+  secret: string
+  secure: boolean
+  idleMinutes: number
+  absoluteHours: number
+  pruneSessions: boolean
+}
+
+/**
+ * Sessions live in PostgreSQL (connect-pg-simple, sharing the app's pool), so any app instance can
+ * serve any request. The cookie is httpOnly and SameSite=Lax, `__Host-` prefixed and Secure over
+ * https. `rolling` gives the idle timeout (the row's expiry moves with each request); the absolute
+ * limit is checked by `enforceAbsoluteLimit`, since express-session has none (expressjs/session#557).
+ */
+export function createSessionMiddleware(pool: Pool, settings: SessionSettings) {
+  const PgStore = connectPgSimple(session)
+  return session({
+    name: settings.secure ? '__Host-heardwell.sid' : 'heardwell.sid',
+    secret: settings.secret,
+    store: new PgStore({ pool, tableName: 'session', pruneSessionInterval: settings.pruneSessions ? 15 * 60 : false }),
+    resave: false,
+    saveUninitialized: false,
+    rolling: true,
+    unset: 'destroy',
+    cookie: { httpOnly: true, sameSite: 'lax', secure: settings.secure, path: '/', maxAge: settings.idleMinutes * 60_000 },
+  })
+}
+
+export function enforceAbsoluteLimit(absoluteHours: number) {
+  return function absoluteLimit(req: Request, _res: Response, next: NextFunction) {
+    const signedInAt = req.session?.signedInAt
+    if (req.user && signedInAt && Date.now() - signedInAt > absoluteHours * 3_600_000) {
+      return req.session.destroy(() => next(new UnauthenticatedError('Your session has ended. Sign in again.')))
+    }
+    next()
+  }
+}

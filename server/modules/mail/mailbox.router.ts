@@ -1,0 +1,15 @@
+import { Router } from 'express'
+import type { Authorize } from '../../middleware/authorize.js'
+import { readMailbox } from '../../fakes/fake-smtp.js'
+
+/**
+ * The development mailbox: every message the local fake SMTP server received. Mounted only when the
+ * fake server runs (never in production), so invitations and reset links can be followed locally.
+ */
+export function mailboxRouter({ authorize, directory }: { authorize: Authorize; directory: string }) {
+  const router = Router()
+  router.get('/dev/mailbox', authorize('public'), (_req, res) => {
+    res.json({ messages: readMailbox(directory).slice(0, 200) })
+  })
+  return router
+}

@@ -1,0 +1,53 @@
+import type { DataSource } from 'typeorm'
+import type { Logger } from '../lib/logger.js'
+import { AuditEvent } from '../modules/audit/audit-event.entity.js'
+import { hashPassword } from '../modules/auth/passwords.js'
+import { Membership } from '../modules/studies/membership.entity.js'
+import { Study } from '../modules/studies/study.entity.js'
+import { User } from '../modules/users/user.entity.js'
+import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_STUDY, DEMO_TEAM } from './demo-data.js'
+
+/**
+ * Loads the demo study and one account per role. Idempotent: what exists is left as it is.
+ * Refused in production, where demo accounts with a published password must never exist.
+ */
+export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Logger): Promise<{ studyId: string }> {
+  if (nodeEnv === 'production') throw new Error('Refusing to load demo data with NODE_ENV=production.')
+  return dataSource.transaction(async (manager) => {
+    const passwordHash = await hashPassword(DEMO_PASSWORD)
+    const userIds = new Map<string, string>()
+    for (const person of [{ ...DEMO_ADMIN, siteAdmin: true }, ...DEMO_TEAM.map((p) => ({ ...p, siteAdmin: false }))]) {
+      let user = await manager.findOneBy(User, { email: person.email })
+      user ??= await manager.save(manager.create(User, { email: person.email, name: person.name, siteAdmin: person.siteAdmin, passwordHash }))
+      userIds.set(person.email, user.id)
+    }
+    let study = await manager.findOneBy(Study, { code: DEMO_STUDY.code })
+    let created = false
+    if (!study) {
+      study = await manager.save(manager.create(Study, DEMO_STUDY))
+      created = true
+    }
+    for (const member of DEMO_TEAM) {
+      const userId = userIds.get(member.email)!
+      if (!(await manager.existsBy(Membership, { studyId: study.id, userId }))) {
+        await manager.insert(Membership, { studyId: study.id, userId, role: member.role })
+      }
+    }
+    if (created) {
+      await manager.getRepository(AuditEvent).save(
+        manager.create(AuditEvent, {
+          action: 'study.created',
+          actorEmail: DEMO_ADMIN.email,
+          actorId: userIds.get(DEMO_ADMIN.email)!,
+          studyId: study.id,
+          targetType: 'study',
+          targetId: study.id,
+          details: { code: study.code, source: 'demo data' },
+        }),
+        { reload: false },
+      )
+      log?.info({ study: study.code }, 'demo study loaded')
+    }
+    return { studyId: study.id }
+  })
+}

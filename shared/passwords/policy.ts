@@ -1,0 +1,77 @@
+/**
+ * Password rules for single-factor sign-in, after NIST SP 800-63B-4 §3.1.1.2 and OWASP ASVS 5.0 V6.2:
+ * at least 15 characters counted in Unicode code points, at least 64 allowed (we cap at 1,024 to bound
+ * request size), NFKC-normalised, never truncated, no composition rules, and refused when the whole
+ * password is a commonly used one or is built from a context word (product name, study titles, the
+ * user's own e-mail). Pure: the common-password list is passed in, so the client can use the length
+ * rule without shipping the list.
+ */
+export const PASSWORD_MIN_CODE_POINTS = 15
+export const PASSWORD_MAX_CODE_POINTS = 1024
+
+export function normalisePassword(password: string): string {
+  return password.normalize('NFKC')
+}
+
+export function codePointLength(text: string): number {
+  return [...text].length
+}
+
+export interface PasswordCheckInput {
+  password: string
+  /** words from the context: product name, study titles, the user's e-mail address */
+  contextWords?: readonly string[]
+  /** a set of commonly used passwords, lower-case */
+  commonPasswords?: ReadonlySet<string>
+}
+
+/** Returns the reasons a password is refused; an empty list means it is acceptable. */
+export function passwordProblems({ password, contextWords = [], commonPasswords }: PasswordCheckInput): string[] {
+  const normalised = normalisePassword(password)
+  const length = codePointLength(normalised)
+  const problems: string[] = []
+  if (length < PASSWORD_MIN_CODE_POINTS) {
+    problems.push(
+      `Use at least ${PASSWORD_MIN_CODE_POINTS} characters (this one has ${length}). A few unrelated words make a long password that is easy to remember.`,
+    )
+  }
+  if (length > PASSWORD_MAX_CODE_POINTS) {
+    problems.push(`Use at most ${PASSWORD_MAX_CODE_POINTS} characters.`)
+  }
+  const folded = squash(normalised)
+  if (commonPasswords?.has(normalised.toLowerCase()) || (folded && commonPasswords?.has(folded))) {
+    problems.push('This password is on a list of commonly used passwords, so it is among the first an attacker would try. Choose another.')
+  }
+  for (const word of contextWords) {
+    for (const variant of contextVariants(word)) {
+      if (variant.length >= 4 && isBuiltFrom(folded, variant)) {
+        problems.push(`This password is built from "${word}", which is easy to guess in this setting. Choose something unrelated.`)
+        return problems
+      }
+    }
+  }
+  return problems
+}
+
+/** lower-case, letters and digits only */
+function squash(text: string): string {
+  return text.normalize('NFKC').toLowerCase().replace(/[^\p{L}\p{N}]+/gu, '')
+}
+
+function contextVariants(word: string): string[] {
+  const variants = new Set<string>([squash(word)])
+  const at = word.indexOf('@')
+  if (at > 0) variants.add(squash(word.slice(0, at)))
+  return [...variants].filter(Boolean)
+}
+
+/**
+ * "Built from" a context word: the password, once the word is removed, has little of its own left
+ * (under 8 code points of other letters or digits) — e.g. "Heardwell2026!!" or the study title
+ * repeated. A long passphrase that merely contains the word is accepted (whole-string rule).
+ */
+function isBuiltFrom(squashedPassword: string, squashedWord: string): boolean {
+  if (!squashedPassword.includes(squashedWord)) return false
+  const rest = squashedPassword.split(squashedWord).join('')
+  return codePointLength(rest.replace(/\d+/g, (d) => (d.length > 4 ? d : ''))) < 8
+}

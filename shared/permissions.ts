@@ -1,0 +1,76 @@
+/**
+ * The one permission matrix of Heardwell: which study role (or the site administrator) may do what.
+ * The server enforces it on every route (server/middleware/authorize.ts); the client reads it only
+ * to hide what a person cannot open. tests/api/authorization-matrix.test.ts walks every registered
+ * route as every role and checks the answer against this file.
+ */
+export const STUDY_ROLES = ['lead', 'coordinator', 'coder', 'partner'] as const
+export type StudyRole = (typeof STUDY_ROLES)[number]
+
+export const ROLE_LABELS: Record<StudyRole, string> = {
+  lead: 'Lead researcher',
+  coordinator: 'Coordinator',
+  coder: 'Coder',
+  partner: 'Patient partner',
+}
+
+interface Rule {
+  /** study roles allowed */
+  roles: readonly StudyRole[]
+  /** whether the site administrator may do it without being a member of the study */
+  siteAdmin: boolean
+  /** what the action is, in plain words (shown in the matrix document and test failures) */
+  description: string
+}
+
+const everyone = STUDY_ROLES
+export const STUDY_ACTIONS = {
+  'study.read': { roles: everyone, siteAdmin: true, description: 'see the study set-up and overview' },
+  'study.update': { roles: ['lead'], siteAdmin: false, description: 'change the study set-up' },
+  'study.assignLead': { roles: [], siteAdmin: true, description: 'name the lead researcher of a study' },
+  'members.read': { roles: everyone, siteAdmin: true, description: 'see the study team' },
+  'members.manage': { roles: ['lead'], siteAdmin: false, description: 'change roles and remove members' },
+  'invitations.read': { roles: ['lead'], siteAdmin: false, description: 'see open invitations' },
+  'invitations.manage': { roles: ['lead'], siteAdmin: false, description: 'invite people and revoke invitations' },
+  'audit.read': { roles: ['lead'], siteAdmin: false, description: "read the study's audit trail" },
+} as const satisfies Record<string, Rule>
+export type StudyAction = keyof typeof STUDY_ACTIONS
+
+/** Site-wide actions: only the site administrator. */
+export const SITE_ACTIONS = {
+  'users.manage': 'create, list and disable accounts',
+  'studies.create': 'create a study',
+  'studies.listAll': 'list every study on the site',
+} as const
+export type SiteAction = keyof typeof SITE_ACTIONS
+
+/**
+ * What a route needs: `public` (anyone, signed in or not), `signedIn` (any account), a site action,
+ * or a study action (then the route has a `:studyId` parameter).
+ */
+export type Access = 'public' | 'signedIn' | `site:${SiteAction}` | `study:${StudyAction}`
+
+export interface Subject {
+  signedIn: boolean
+  siteAdmin: boolean
+  /** the caller's role in the study the route is about, if any */
+  role: StudyRole | null
+}
+
+export type Decision = 'allow' | 'unauthenticated' | 'forbidden'
+
+export function decide(subject: Subject, access: Access): Decision {
+  if (access === 'public') return 'allow'
+  if (!subject.signedIn) return 'unauthenticated'
+  if (access === 'signedIn') return 'allow'
+  if (access.startsWith('site:')) return subject.siteAdmin ? 'allow' : 'forbidden'
+  const rule: Rule = STUDY_ACTIONS[access.slice('study:'.length) as StudyAction]
+  if (!rule) return 'forbidden'
+  if (subject.role && rule.roles.includes(subject.role)) return 'allow'
+  if (subject.siteAdmin && rule.siteAdmin) return 'allow'
+  return 'forbidden'
+}
+
+export function can(role: StudyRole | null, siteAdmin: boolean, action: StudyAction): boolean {
+  return decide({ signedIn: true, siteAdmin, role }, `study:${action}`) === 'allow'
+}

@@ -1,0 +1,6 @@
+export * from './common.js'
+export * from './auth.js'
+export * from './studies.js'
+export * from './audit.js'
+export * from './users.js'
+export * from './health.js'
