@@ -4,7 +4,7 @@ import { entities } from './entities.js'
 import { migrations } from './migrations/index.js'
 
 /** Builds the TypeORM data source. The schema changes only through migrations (never synchronize). */
-export function createDataSource(url: string, options: { poolSize?: number; onPoolError?: (error: Error) => void } = {}): DataSource {
+export function createDataSource(url: string, options: { poolSize?: number; logging?: boolean; onPoolError?: (error: Error) => void } = {}): DataSource {
   return new DataSource({
     type: 'postgres',
     url,
@@ -13,7 +13,7 @@ export function createDataSource(url: string, options: { poolSize?: number; onPo
     synchronize: false,
     migrationsRun: false,
     uuidExtension: 'pgcrypto',
-    logging: ['error'],
+    logging: options.logging === false ? false : ['error'],
     poolSize: options.poolSize ?? 10,
     extra: { connectionTimeoutMillis: 5000 },
     // An idle client hit by a database restart reports here instead of killing the process (node-postgres #1707).

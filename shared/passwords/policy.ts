@@ -42,6 +42,9 @@ export function passwordProblems({ password, contextWords = [], commonPasswords 
   if (commonPasswords?.has(normalised.toLowerCase()) || (folded && commonPasswords?.has(folded))) {
     problems.push('This password is on a list of commonly used passwords, so it is among the first an attacker would try. Choose another.')
   }
+  if (length >= PASSWORD_MIN_CODE_POINTS && isRepetitiveOrSequential(normalised)) {
+    problems.push('This password is a repeated or sequential pattern (like "aaaa…" or "1234…"), which is quick to guess. Choose something less regular.')
+  }
   for (const word of contextWords) {
     for (const variant of contextVariants(word)) {
       if (variant.length >= 4 && isBuiltFrom(folded, variant)) {
@@ -51,6 +54,22 @@ export function passwordProblems({ password, contextWords = [], commonPasswords 
     }
   }
   return problems
+}
+
+/**
+ * Repetitive (one short unit repeated, "abcabcabc…") or sequential (each character one after the
+ * previous, "123456…", "abcdef…"): NIST SP 800-63B rev. 3 §5.1.1.2 names both among the values to refuse.
+ */
+export function isRepetitiveOrSequential(password: string): boolean {
+  const chars = [...password.toLowerCase()]
+  for (let unit = 1; unit <= 4; unit++) {
+    if (chars.every((c, i) => c === chars[i % unit])) return true
+  }
+  const codes = chars.map((c) => c.codePointAt(0)!)
+  const steps = codes.slice(1).map((c, i) => c - codes[i]!)
+  // "1234567890" wraps 9 → 0; treat that step as sequential too
+  const isStep = (d: number, dir: 1 | -1) => d === dir || (dir === 1 && d === -9) || (dir === -1 && d === 9)
+  return steps.every((d) => isStep(d, 1)) || steps.every((d) => isStep(d, -1))
 }
 
 /** lower-case, letters and digits only */
