@@ -7,9 +7,9 @@ const PROBLEM_BASE = 'https://heardwell.test/problems/'
 /** Errors that mean the database (or the session store in it) cannot be reached right now. */
 export function isDatabaseUnavailable(error: unknown): boolean {
   const e = error as { code?: string; message?: string }
-  const codes = ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08000', '08003', '08006', '08001', '08004']
+  const codes = ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08000', '08003', '08006', '08001', '08004', '53300']
   if (e?.code && codes.includes(e.code)) return true
-  return /Connection terminated|connection timeout|Client has encountered a connection error|terminating connection|the database system is (starting up|shutting down)/i.test(
+  return /Connection terminated|connection timeout|Client has encountered a connection error|terminating connection|the database system is (starting up|shutting down)|not currently accepting connections/i.test(
     e?.message ?? '',
   )
 }

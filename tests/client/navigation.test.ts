@@ -1,0 +1,45 @@
+import { afterEach, describe, expect, it } from 'vitest'
+import AppNavigation from '@/components/app/AppNavigation.vue'
+import { createTestApp, mountView, signInAs } from './support'
+
+async function linksFor(role: Parameters<typeof signInAs>[0], siteAdmin = false) {
+  const app = createTestApp()
+  signInAs(role, siteAdmin)
+  const { wrapper } = await mountView(AppNavigation, {
+    app,
+    path: '/studies/study-1',
+    props: { studyId: 'study-1', studyTitle: 'Coming Home After Stroke' },
+  })
+  const nav = wrapper.find('[role="navigation"]')
+  return { nav, titles: wrapper.findAll('.v-list-item-title').map((t) => t.text()) }
+}
+
+describe('main navigation', () => {
+  afterEach(() => {
+    document.body.innerHTML = ''
+  })
+
+  it('is a labelled navigation landmark', async () => {
+    const { nav } = await linksFor('lead')
+    expect(nav.exists()).toBe(true)
+    expect(nav.attributes('aria-label')).toBe('Main')
+  })
+
+  it('hides the audit trail from a coder', async () => {
+    const { titles } = await linksFor('coder')
+    expect(titles).toContain('Overview')
+    expect(titles).toContain('Team')
+    expect(titles).not.toContain('Audit trail')
+  })
+
+  it('shows the audit trail to the lead researcher, linking to the study audit page', async () => {
+    const { nav, titles } = await linksFor('lead')
+    expect(titles).toContain('Audit trail')
+    expect(nav.find('a[href="/studies/study-1/audit"]').exists()).toBe(true)
+  })
+
+  it('shows site administration only to the site administrator', async () => {
+    expect((await linksFor('partner')).titles).not.toContain('Site administration')
+    expect((await linksFor(null, true)).titles).toContain('Site administration')
+  })
+})
