@@ -22,9 +22,9 @@ ensureChromium()
 const env = { ...process.env, AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' }
 step('Type-checking', bin('vue-tsc'), ['-b'])
 step('Linting', bin('eslint'), ['.', '--max-warnings', '0'])
-step('Building the client for the browser tests', bin('vite'), ['build', '--logLevel', 'warn', '--outDir', 'node_modules/.tmp/test-dist', '--emptyOutDir'])
+step('Building the client for the browser tests', bin('vite'), ['build', '--logLevel', 'warn', '--outDir', 'test-output/client', '--emptyOutDir'])
 const extra = process.argv.slice(2)
-const result = spawnSync(bin('vitest'), ['run', ...extra], { stdio: 'inherit', env: { ...env, TEST_CLIENT_DIST: 'node_modules/.tmp/test-dist' } })
+const result = spawnSync(bin('vitest'), ['run', ...extra], { stdio: 'inherit', env: { ...env, TEST_CLIENT_DIST: 'test-output/client' } })
 process.exit(result.status ?? 1)
 
 function step(title, command, args) {

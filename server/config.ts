@@ -44,10 +44,20 @@ const schema = z.object({
   CLIENT_DIST: z.string().default('dist'),
 })
 
+const checked = schema.superRefine((c, ctx) => {
+  if (c.NODE_ENV !== 'production') return
+  // In production the local fakes never stand in for real services, and demo data is never loaded.
+  for (const key of ['S3_ENDPOINT', 'SMTP_URL'] as const) {
+    if (!c[key]) ctx.addIssue({ code: 'custom', path: [key], message: `${key} is required when NODE_ENV=production` })
+  }
+  if (c.SEED_DEMO) ctx.addIssue({ code: 'custom', path: ['SEED_DEMO'], message: 'demo data is refused when NODE_ENV=production' })
+  if (c.MAILBOX_DIR) ctx.addIssue({ code: 'custom', path: ['MAILBOX_DIR'], message: 'the development mailbox is not available in production' })
+})
+
 export type Config = Readonly<z.infer<typeof schema>>
 
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
-  const parsed = schema.safeParse(env)
+  const parsed = checked.safeParse(env)
   if (!parsed.success) {
     const lines = parsed.error.issues.map((issue) => `  ${issue.path.join('.')}: ${issue.message}`)
     throw new Error(`Heardwell cannot start: the environment is not complete.\n${lines.join('\n')}\nSee .env.example.`)

@@ -6,8 +6,6 @@ import type { Config } from './config.js'
 import { createApp } from './app.js'
 import { createDataSource } from './db/data-source.js'
 import { BOSS_SCHEMA, ensureQueues, migrateDatabase } from './db/migrate.js'
-import { startFakeS3 } from './fakes/fake-s3.js'
-import { startFakeSmtp } from './fakes/fake-smtp.js'
 import type { Logger } from './lib/logger.js'
 import { createMailTransport } from './modules/mail/mail-transport.js'
 import { MailService } from './modules/mail/mail.service.js'
@@ -41,6 +39,8 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
   const dataDir = path.resolve('.data')
   let s3 = { endpoint: config.S3_ENDPOINT, accessKeyId: config.S3_ACCESS_KEY_ID, secretAccessKey: config.S3_SECRET_ACCESS_KEY }
   if (!config.S3_ENDPOINT) {
+    // loaded only when used: the fakes' packages are development dependencies
+    const { startFakeS3 } = await import('./fakes/fake-s3.js')
     const fake = await startFakeS3(path.join(dataDir, 's3'), config.S3_BUCKET)
     closers.push(() => fake.close())
     s3 = fake
@@ -53,6 +53,7 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
   let mailboxDir = config.MAILBOX_DIR
   if (!smtpUrl) {
     mailboxDir ??= path.join(dataDir, 'mail')
+    const { startFakeSmtp } = await import('./fakes/fake-smtp.js')
     const fake = await startFakeSmtp(mailboxDir)
     closers.push(() => fake.close())
     smtpUrl = fake.url

@@ -40,7 +40,6 @@ export type StudyAction = keyof typeof STUDY_ACTIONS
 export const SITE_ACTIONS = {
   'users.manage': 'create, list and disable accounts',
   'studies.create': 'create a study',
-  'studies.listAll': 'list every study on the site',
 } as const
 export type SiteAction = keyof typeof SITE_ACTIONS
 

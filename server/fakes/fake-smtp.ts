@@ -1,18 +1,9 @@
-import { mkdirSync, readdirSync, readFileSync, writeFileSync } from 'node:fs'
-import path from 'node:path'
+import { mkdirSync } from 'node:fs'
 import { SMTPServer } from 'smtp-server'
 import { simpleParser } from 'mailparser'
+import { writeMail, type StoredMail } from './mailbox-store.js'
 
-export interface StoredMail {
-  id: string
-  receivedAt: string
-  from: string
-  to: string[]
-  subject: string
-  text: string
-  messageId: string | null
-  attachments: { filename: string | null; contentType: string; size: number }[]
-}
+export { readMailbox, type StoredMail } from './mailbox-store.js'
 
 export interface FakeSmtp {
   url: string
@@ -45,7 +36,7 @@ export async function startFakeSmtp(directory: string, port = 0): Promise<FakeSm
             messageId: parsed.messageId ?? null,
             attachments: parsed.attachments.map((a) => ({ filename: a.filename ?? null, contentType: a.contentType, size: a.size })),
           }
-          writeFileSync(path.join(directory, `${id}.json`), JSON.stringify(mail, null, 2))
+          writeMail(directory, mail)
           callback()
         })
         .catch((error: Error) => callback(error))
@@ -61,17 +52,4 @@ export async function startFakeSmtp(directory: string, port = 0): Promise<FakeSm
     port: actualPort,
     close: () => new Promise<void>((resolve) => server.close(() => resolve())),
   }
-}
-
-/** Every message the fake server kept, newest first. */
-export function readMailbox(directory: string): StoredMail[] {
-  let files: string[]
-  try {
-    files = readdirSync(directory).filter((f) => f.endsWith('.json'))
-  } catch {
-    return []
-  }
-  return files
-    .map((f) => JSON.parse(readFileSync(path.join(directory, f), 'utf8')) as StoredMail)
-    .sort((a, b) => b.receivedAt.localeCompare(a.receivedAt) || b.id.localeCompare(a.id))
 }

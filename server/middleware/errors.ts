@@ -44,6 +44,9 @@ export function createErrorHandler(log: Logger, exposeDetails: boolean) {
     if (e?.type === 'charset.unsupported' || e?.type === 'encoding.unsupported') {
       return send(res, req, 415, 'unsupported-encoding', 'Unsupported encoding', 'Send the request as UTF-8 JSON.')
     }
+    if (typeof e?.status === 'number' && e.status >= 400 && e.status < 500) {
+      return send(res, req, e.status, 'client-error', 'The request could not be served', 'Check the address and try again.')
+    }
     if (isDatabaseUnavailable(error)) {
       log.error({ err: e?.message, requestId: req.requestId }, 'database unavailable')
       return send(res, req, 503, 'unavailable', 'Service unavailable', 'The database is not reachable right now. Please try again in a minute.')

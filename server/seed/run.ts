@@ -1,13 +1,12 @@
-import { loadConfig } from '../config.js'
 import { createDataSource } from '../db/data-source.js'
-import { createLogger } from '../lib/logger.js'
 import { seedDemo } from './demo.js'
 
-/** `npm run db:seed`: loads the demo study into DATABASE_URL. */
-const config = loadConfig()
-const dataSource = await createDataSource(config.DATABASE_URL).initialize()
+/** `npm run db:seed`: loads the demo study into DATABASE_URL (refused when NODE_ENV=production). */
+const url = process.env.DATABASE_URL ?? 'postgres://postgres@127.0.0.1:54329/heardwell'
+const dataSource = await createDataSource(url).initialize()
 try {
-  await seedDemo(dataSource, config.NODE_ENV, createLogger(config.LOG_LEVEL))
+  await seedDemo(dataSource, process.env.NODE_ENV ?? 'development')
+  console.log('The demo study is loaded.')
 } finally {
   await dataSource.destroy()
 }

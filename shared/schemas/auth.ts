@@ -61,3 +61,7 @@ export const invitationAccept = z.strictObject({
   password: passwordField,
 })
 export type InvitationAccept = z.infer<typeof invitationAccept>
+
+/** Accepting an invitation signs the person in and names the study they joined. */
+export const invitationAcceptResponse = meResponse.extend({ studyId: z.string() })
+export type InvitationAcceptResponse = z.infer<typeof invitationAcceptResponse>

@@ -62,7 +62,7 @@ describe('e-mail outbox', () => {
       await ctx.dataSource.query(`UPDATE pgboss.job SET start_after = now() WHERE name = 'mail-send' AND state = 'retry'`)
       await until(async () => (await outbox.findBy({ status: 'sent' })).filter((m) => recipients.includes(m.to)).length === 2, 30_000)
       await new Promise((r) => setTimeout(r, 2000))
-      const { readMailbox } = await import('../../server/fakes/fake-smtp.js')
+      const { readMailbox } = await import('../../server/fakes/mailbox-store.js')
       const received = readMailbox(mailboxDir)
       for (const email of recipients) expect(received.filter((m) => m.to.includes(email))).toHaveLength(1)
     } finally {

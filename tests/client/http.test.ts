@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { z } from 'zod'
 import { ApiError } from '@/api/errors'
-import { dropCsrfToken, http } from '@/api/http'
+import { dropCsrfToken, http, onSessionEnded } from '@/api/http'
 import { stubFetch } from './support'
 
 describe('the fetch wrapper', () => {
@@ -52,5 +52,17 @@ describe('the fetch wrapper', () => {
   it('says Heardwell cannot be reached when the network fails', async () => {
     stubFetch({ 'GET /api/health': new TypeError('Failed to fetch') })
     await expect(http.get('/health', z.object({}))).rejects.toThrow('Heardwell cannot be reached. Check your connection and try again.')
+  })
+
+  it('reports an ended session when a read answers 401, but not when a form post does', async () => {
+    const ended = vi.fn()
+    onSessionEnded(ended)
+    const unauthenticated = { status: 401, body: { type: '/problems/unauthenticated', title: 'Sign in', status: 401 } }
+    stubFetch({ 'GET /api/auth/csrf': { status: 200, body: { token: 't' } }, 'POST /api/auth/password': unauthenticated, 'GET /api/studies': unauthenticated })
+    await http.post('/auth/password', {}).catch(() => undefined)
+    expect(ended).not.toHaveBeenCalled()
+    await http.get('/studies', z.object({})).catch(() => undefined)
+    expect(ended).toHaveBeenCalledOnce()
+    onSessionEnded(() => {})
   })
 })

@@ -1,5 +1,5 @@
 import { inject } from 'vitest'
-import { readMailbox, type StoredMail } from '../../server/fakes/fake-smtp.js'
+import { readMailbox, type StoredMail } from '../../server/fakes/mailbox-store.js'
 
 /** Waits until the fake SMTP server has received a message for `to` (optionally matching the subject). */
 export async function waitForMail(to: string, subject?: RegExp, timeoutMs = 15_000): Promise<StoredMail> {

@@ -14,7 +14,7 @@ interface Layer {
 }
 
 /** Every route registered in the Express app, read from its router stack (not from a hand-written list). */
-export function listRoutes(app: { router: { stack: Layer[] } }): RegisteredRoute[] {
+export function listRoutes(app: object): RegisteredRoute[] {
   const found: RegisteredRoute[] = []
   const walk = (stack: Layer[], prefix: string) => {
     for (const layer of stack) {
@@ -28,6 +28,6 @@ export function listRoutes(app: { router: { stack: Layer[] } }): RegisteredRoute
       }
     }
   }
-  walk(app.router.stack, '')
+  walk((app as unknown as { router: { stack: Layer[] } }).router.stack, '')
   return found
 }

@@ -1,6 +1,6 @@
 import { Router } from 'express'
 import type { Authorize } from '../../middleware/authorize.js'
-import { readMailbox } from '../../fakes/fake-smtp.js'
+import { readMailbox } from '../../fakes/mailbox-store.js'
 
 /**
  * The development mailbox: every message the local fake SMTP server received. Mounted only when the

@@ -39,8 +39,12 @@ export async function startE2E(): Promise<E2E> {
     ctx,
     baseUrl,
     browser,
+    /** a page with no cookies, so each journey starts signed out */
     async newPage() {
-      return browser.newPage()
+      await browser.clearCookies()
+      const page = await browser.newPage()
+      page.setDefaultTimeout(15_000)
+      return page
     },
     async close() {
       await browser.close()

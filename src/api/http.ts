@@ -1,0 +1,110 @@
+import type { z } from 'zod'
+import { csrfResponse } from '@shared/schemas/auth'
+import { problemSchema } from '@shared/schemas/common'
+import { ApiError } from './errors'
+
+/**
+ * The one fetch wrapper: same-origin `/api`, cookie session, JSON in and out, CSRF token on every
+ * state-changing call, problem+json turned into ApiError, answers checked against the zod schema.
+ */
+type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE'
+export type QueryParams = Record<string, string | number | boolean | null | undefined>
+
+const BASE = '/api'
+let csrfToken: Promise<string> | null = null
+let sessionEnded: () => void = () => {}
+
+/** Called when a read answers 401: the session expired or was signed out elsewhere. */
+export function onSessionEnded(handler: () => void): void {
+  sessionEnded = handler
+}
+
+/** The session id rotates at sign-in, sign-out and password change: its token goes with it. */
+export function dropCsrfToken(): void {
+  csrfToken = null
+}
+
+function loadCsrfToken(): Promise<string> {
+  csrfToken ??= request('GET', '/auth/csrf', undefined, undefined, csrfResponse)
+    .then((answer) => answer.token)
+    .catch((error: unknown) => {
+      csrfToken = null
+      throw error
+    })
+  return csrfToken
+}
+
+function urlOf(path: string, query?: QueryParams): string {
+  const params = new URLSearchParams()
+  for (const [key, value] of Object.entries(query ?? {})) {
+    if (value !== undefined && value !== null && value !== '') params.set(key, String(value))
+  }
+  const search = params.toString()
+  return `${BASE}${path}${search ? `?${search}` : ''}`
+}
+
+async function problemFrom(response: Response): Promise<ApiError> {
+  const body: unknown = await response.json().catch(() => null)
+  const parsed = problemSchema.safeParse(body)
+  if (parsed.success) return new ApiError(parsed.data)
+  return new ApiError({
+    type: 'about:blank',
+    status: response.status,
+    title: response.status >= 500 ? 'Heardwell had a problem on its side. Try again in a moment.' : `The request was refused (${response.status}).`,
+  })
+}
+
+async function request<S extends z.ZodType>(
+  method: Method,
+  path: string,
+  body: unknown,
+  query: QueryParams | undefined,
+  schema: S | undefined,
+  retried = false,
+): Promise<z.output<S>> {
+  const headers: Record<string, string> = { Accept: 'application/json' }
+  if (body !== undefined) headers['Content-Type'] = 'application/json'
+  if (method !== 'GET') headers['X-CSRF-Token'] = await loadCsrfToken()
+
+  let response: Response
+  try {
+    response = await fetch(urlOf(path, query), {
+      method,
+      headers,
+      credentials: 'include',
+      body: body === undefined ? undefined : JSON.stringify(body),
+    })
+  } catch {
+    throw ApiError.unreachable()
+  }
+
+  if (!response.ok) {
+    const error = await problemFrom(response)
+    if (response.status === 403 && error.type.endsWith('csrf') && !retried) {
+      dropCsrfToken()
+      return request(method, path, body, query, schema, true)
+    }
+    // Only reads: a 401 on a form post can mean "wrong current password", which the form explains itself.
+    if (response.status === 401 && method === 'GET' && path !== '/auth/me') sessionEnded()
+    throw error
+  }
+  if (!schema || response.status === 204 || response.status === 202) return undefined as z.output<S>
+
+  const payload: unknown = await response.json().catch(() => undefined)
+  const parsed = schema.safeParse(payload)
+  if (!parsed.success) {
+    throw new ApiError({ type: 'unreadable-response', status: response.status, title: 'Heardwell sent an answer this page could not read. Reload the page and try again.' })
+  }
+  return parsed.data
+}
+
+export const http = {
+  get: <S extends z.ZodType>(path: string, schema: S, query?: QueryParams) => request('GET', path, undefined, query, schema),
+  post: <S extends z.ZodType>(path: string, body: unknown, schema?: S) => request('POST', path, body, undefined, schema),
+  put: <S extends z.ZodType>(path: string, body: unknown, schema?: S) => request('PUT', path, body, undefined, schema),
+  patch: <S extends z.ZodType>(path: string, body: unknown, schema?: S) => request('PATCH', path, body, undefined, schema),
+  delete: (path: string) => request('DELETE', path, undefined, undefined, undefined),
+}
+
+/** Encodes one path segment taken from a route or a record. */
+export const segment = (value: string): string => encodeURIComponent(value)

@@ -1,0 +1,73 @@
+import {
+  mdiAccountCancelOutline,
+  mdiAccountCheckOutline,
+  mdiAccountCircleOutline,
+  mdiAccountGroupOutline,
+  mdiAccountPlusOutline,
+  mdiAccountSwitchOutline,
+  mdiAlertCircleOutline,
+  mdiArrowRight,
+  mdiBookOpenPageVariantOutline,
+  mdiCalendarClock,
+  mdiCheckCircleOutline,
+  mdiClipboardTextOutline,
+  mdiCompassOutline,
+  mdiDeleteOutline,
+  mdiEarHearing,
+  mdiEmailOffOutline,
+  mdiEmailOutline,
+  mdiEyeOffOutline,
+  mdiEyeOutline,
+  mdiFilterOutline,
+  mdiFolderPlusOutline,
+  mdiHistory,
+  mdiInformationOutline,
+  mdiLockReset,
+  mdiLogout,
+  mdiMenu,
+  mdiPencilOutline,
+  mdiRefresh,
+  mdiShieldAccountOutline,
+  mdiViewDashboardOutline,
+} from '@mdi/js'
+import type { IconAliases } from 'vuetify'
+import { aliases as mdiAliases } from 'vuetify/iconsets/mdi-svg'
+
+/**
+ * Our icon names, used as `$name` in templates. Each path is imported on its own so the bundle
+ * holds only these few, not the whole set.
+ */
+const heardwellIcons = {
+  brand: mdiEarHearing,
+  studies: mdiBookOpenPageVariantOutline,
+  overview: mdiViewDashboardOutline,
+  team: mdiAccountGroupOutline,
+  audit: mdiHistory,
+  account: mdiAccountCircleOutline,
+  admin: mdiShieldAccountOutline,
+  signOut: mdiLogout,
+  show: mdiEyeOutline,
+  hide: mdiEyeOffOutline,
+  problem: mdiAlertCircleOutline,
+  expiry: mdiCalendarClock,
+  email: mdiEmailOutline,
+  edit: mdiPencilOutline,
+  remove: mdiDeleteOutline,
+  invite: mdiAccountPlusOutline,
+  retry: mdiRefresh,
+  done: mdiCheckCircleOutline,
+  next: mdiArrowRight,
+  password: mdiLockReset,
+  nav: mdiMenu,
+  setup: mdiClipboardTextOutline,
+  lost: mdiCompassOutline,
+  disable: mdiAccountCancelOutline,
+  enable: mdiAccountCheckOutline,
+  filter: mdiFilterOutline,
+  newStudy: mdiFolderPlusOutline,
+  changeLead: mdiAccountSwitchOutline,
+  revoke: mdiEmailOffOutline,
+  info: mdiInformationOutline,
+}
+
+export const iconAliases: IconAliases = { ...mdiAliases, ...heardwellIcons } as IconAliases

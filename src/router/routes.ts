@@ -1,0 +1,83 @@
+import type { RouteRecordRaw } from 'vue-router'
+import type { StudyAction } from '@shared/permissions'
+
+declare module 'vue-router' {
+  interface RouteMeta {
+    /** open without signing in */
+    public?: true
+    /** a page without the app shell (sign-in and the e-mailed links) */
+    bare?: true
+    /** the study action the route needs; the route then has a `:studyId` parameter */
+    permission?: StudyAction
+    /** only the site administrator */
+    siteAdmin?: true
+    /** the document title */
+    title?: string
+  }
+}
+
+/** Every view is loaded on first visit, so the first page carries only the shell. */
+export const routes: RouteRecordRaw[] = [
+  {
+    path: '/sign-in',
+    name: 'sign-in',
+    component: () => import('@/views/auth/SignInView.vue'),
+    meta: { public: true, bare: true, title: 'Sign in' },
+  },
+  {
+    path: '/forgot-password',
+    name: 'forgot-password',
+    component: () => import('@/views/auth/ForgotPasswordView.vue'),
+    meta: { public: true, bare: true, title: 'Forgotten password' },
+  },
+  {
+    path: '/reset-password/:token',
+    name: 'reset-password',
+    component: () => import('@/views/auth/ResetPasswordView.vue'),
+    meta: { public: true, bare: true, title: 'Choose a new password' },
+  },
+  {
+    path: '/invitations/:token',
+    name: 'accept-invitation',
+    component: () => import('@/views/auth/AcceptInvitationView.vue'),
+    meta: { public: true, bare: true, title: 'Join a study' },
+  },
+  { path: '/', name: 'my-studies', component: () => import('@/views/studies/MyStudiesView.vue'), meta: { title: 'My studies' } },
+  {
+    path: '/studies/:studyId',
+    name: 'study-overview',
+    component: () => import('@/views/studies/StudyOverviewView.vue'),
+    meta: { permission: 'study.read', title: 'Study overview' },
+  },
+  {
+    path: '/studies/:studyId/team',
+    name: 'study-team',
+    component: () => import('@/views/team/TeamView.vue'),
+    meta: { permission: 'members.read', title: 'Team' },
+  },
+  {
+    path: '/studies/:studyId/audit',
+    name: 'study-audit',
+    component: () => import('@/views/audit/AuditView.vue'),
+    meta: { permission: 'audit.read', title: 'Audit trail' },
+  },
+  { path: '/account', name: 'account', component: () => import('@/views/account/AccountView.vue'), meta: { title: 'Your account' } },
+  {
+    path: '/admin',
+    name: 'site-admin',
+    component: () => import('@/views/admin/AdminView.vue'),
+    meta: { siteAdmin: true, title: 'Site administration' },
+  },
+  {
+    path: '/not-allowed',
+    name: 'not-allowed',
+    component: () => import('@/views/errors/NotAllowedView.vue'),
+    meta: { title: 'Not open to you' },
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    name: 'not-found',
+    component: () => import('@/views/errors/NotFoundView.vue'),
+    meta: { public: true, title: 'Page not found' },
+  },
+]
