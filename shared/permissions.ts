@@ -40,6 +40,7 @@ export type StudyAction = keyof typeof STUDY_ACTIONS
 export const SITE_ACTIONS = {
   'users.manage': 'create, list and disable accounts',
   'studies.create': 'create a study',
+  'audit.read': 'read the site-wide audit trail (sign-ins, accounts, studies created)',
 } as const
 export type SiteAction = keyof typeof SITE_ACTIONS
 

@@ -7,11 +7,12 @@ export type AuditFilter = Pick<AuditQuery, 'page' | 'pageSize' | 'action' | 'act
 
 export const auditKeys = {
   page: (studyId: string, filter: AuditFilter) =>
-    ['studies', studyId, 'audit', filter.page, filter.pageSize, filter.action ?? '', filter.actor ?? ''] as const,
+    [studyId ? 'studies' : 'site', studyId, 'audit', filter.page, filter.pageSize, filter.action ?? '', filter.actor ?? ''] as const,
 }
 
+/** A study's trail; with no study, the site-wide trail (site administrator). */
 export const fetchAuditPage = (studyId: string, filter: AuditFilter): Promise<AuditPage> =>
-  http.get(`/studies/${segment(studyId)}/audit`, auditPage, { ...filter })
+  http.get(studyId ? `/studies/${segment(studyId)}/audit` : '/audit', auditPage, { ...filter })
 
 export function useAuditPageQuery(studyId: MaybeRefOrGetter<string>, filter: MaybeRefOrGetter<AuditFilter>) {
   return useQuery({

@@ -69,6 +69,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { siteAdmin: true, title: 'Site administration' },
   },
   {
+    path: '/admin/audit',
+    name: 'site-audit',
+    component: () => import('@/views/audit/AuditView.vue'),
+    meta: { siteAdmin: true, title: 'Site audit trail' },
+  },
+  {
     path: '/not-allowed',
     name: 'not-allowed',
     component: () => import('@/views/errors/NotAllowedView.vue'),

@@ -75,3 +75,18 @@ describe('audit trail', () => {
     expect((await outsider.get(`/api/studies/${team.study.id}/audit`)).status).toBe(403)
   })
 })
+
+describe('site-wide audit trail', () => {
+  it('shows the site administrator sign-ins and failed sign-ins, and only the administrator', async () => {
+    const admin = new Client(ctx.app)
+    await admin.signIn(team.users.admin.email, TEST_PASSWORD)
+    await new Client(ctx.app).signIn(team.users.coordinator.email, 'a wrong password for the trail')
+    const res = await admin.get('/api/audit?action=auth.sign_in_failed&pageSize=100')
+    expect(res.status).toBe(200)
+    expect(res.body.events.some((e: { actorEmail: string }) => e.actorEmail === team.users.coordinator.email)).toBe(true)
+    // study changes stay in the study's own trail
+    const all = await admin.get('/api/audit?pageSize=100')
+    expect(all.body.events.some((e: { action: string }) => e.action === 'study.updated')).toBe(false)
+    expect((await lead.get('/api/audit')).status).toBe(403)
+  })
+})

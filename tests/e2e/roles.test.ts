@@ -66,6 +66,11 @@ describe('signing in as each demo role', () => {
     expect(await seriousA11yViolations(page)).toEqual([])
     const audit = await page.evaluate(async (id) => (await fetch(`/api/studies/${id}/audit`)).status, studyId)
     expect(audit).toBe(403)
+    // the site-wide trail shows this very sign-in
+    await nav.getByText('Site audit trail').click()
+    await page.getByRole('cell', { name: 'auth.signed_in' }).first().waitFor()
+    await screenshot(page, '04-site-audit-trail')
+    expect(await seriousA11yViolations(page)).toEqual([])
     await page.close()
   })
 })

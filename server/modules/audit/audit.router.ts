@@ -10,5 +10,8 @@ export function auditRouter({ authorize, audit }: { authorize: Authorize; audit:
   router.get('/studies/:studyId/audit', authorize('study:audit.read'), validate({ params: idParams, query: auditQuery }), async (req, res) => {
     res.json(await audit.page(req.valid.params.studyId, req.valid.query))
   })
+  router.get('/audit', authorize('site:audit.read'), validate({ query: auditQuery }), async (req, res) => {
+    res.json(await audit.page(null, req.valid.query))
+  })
   return router
 }

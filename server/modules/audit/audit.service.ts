@@ -40,11 +40,13 @@ export class AuditService {
     await manager.getRepository(AuditEvent).save(event, { reload: false })
   }
 
-  async page(studyId: string, query: AuditQuery): Promise<AuditPage> {
-    const qb = this.dataSource
-      .getRepository(AuditEvent)
-      .createQueryBuilder('e')
-      .where('e.study_id = :studyId', { studyId })
+  /** One page of a study's trail, or with `null` the site-wide one. */
+  async page(studyId: string | null, query: AuditQuery): Promise<AuditPage> {
+    const qb = this.dataSource.getRepository(AuditEvent).createQueryBuilder('e')
+    if (studyId) qb.where('e.study_id = :studyId', { studyId })
+    // the site trail: sign-ins and accounts, plus the administrator's own study actions
+    else qb.where(`(e.study_id IS NULL OR e.action IN ('study.created', 'study.lead_assigned'))`)
+    qb
       .orderBy('e.at', 'DESC')
       .addOrderBy('e.id', 'DESC')
       .skip((query.page - 1) * query.pageSize)
