@@ -75,7 +75,7 @@ server.on('message', (message) => {
     coder1@heardwell.test       coder
     coder2@heardwell.test       coder
     partner@heardwell.test      patient partner
-  E-mail sent by the app locally: ${url}/api/dev/mailbox
+  E-mail sent by the app locally: ${url}/dev/mailbox
 `)
 })
 server.on('exit', (code) => finish(code ?? 0))

@@ -57,7 +57,7 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
     const fake = await startFakeSmtp(mailboxDir)
     closers.push(() => fake.close())
     smtpUrl = fake.url
-    log.info({ url: fake.url }, 'local mail server started (fake SMTP); messages at /api/dev/mailbox')
+    log.info({ url: fake.url }, 'local mail server started (fake SMTP); messages at /dev/mailbox')
   }
   const mailTransport = createMailTransport(smtpUrl)
   closers.push(async () => mailTransport.close())

@@ -75,6 +75,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { siteAdmin: true, title: 'Site audit trail' },
   },
   {
+    path: '/dev/mailbox',
+    name: 'dev-mailbox',
+    component: () => import('@/views/dev/DevMailboxView.vue'),
+    meta: { public: true, bare: true, title: 'Development mailbox' },
+  },
+  {
     path: '/not-allowed',
     name: 'not-allowed',
     component: () => import('@/views/errors/NotAllowedView.vue'),

@@ -1,5 +1,7 @@
 import { Router } from 'express'
 import type { Authorize } from '../../middleware/authorize.js'
+import type { z } from 'zod'
+import type { devMailboxResponse } from '../../../shared/schemas/dev.js'
 import { readMailbox } from '../../fakes/mailbox-store.js'
 
 /**
@@ -9,7 +11,8 @@ import { readMailbox } from '../../fakes/mailbox-store.js'
 export function mailboxRouter({ authorize, directory }: { authorize: Authorize; directory: string }) {
   const router = Router()
   router.get('/dev/mailbox', authorize('public'), (_req, res) => {
-    res.json({ messages: readMailbox(directory).slice(0, 200) })
+    const body: z.infer<typeof devMailboxResponse> = { messages: readMailbox(directory).slice(0, 200) }
+    res.json(body)
   })
   return router
 }

@@ -61,10 +61,12 @@ export async function screenshot(page: Page, name: string): Promise<void> {
 
 /** axe-core scan; returns the serious and critical violations, described for a failure message. */
 export async function seriousA11yViolations(page: Page): Promise<string[]> {
+  // scan the settled page: an element half-way through a fade has a lower contrast than it will keep
+  await page.waitForFunction(() => !document.querySelector('[class*="-transition-enter-active"], [class*="-transition-leave-active"]'))
   const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze()
   return result.violations
     .filter((v) => v.impact === 'serious' || v.impact === 'critical')
-    .map((v) => `${v.impact} ${v.id}: ${v.help} — ${v.nodes.map((n) => n.target.join(' ')).slice(0, 3).join(', ')}`)
+    .map((v) => `${v.impact} ${v.id}: ${v.help} — ${v.nodes.map((n) => `${n.target.join(' ')} ${n.html.slice(0, 160)} ${n.failureSummary ?? ''}`).slice(0, 3).join(', ')}`)
 }
 
 export async function signIn(page: Page, baseUrl: string, email: string, password: string): Promise<void> {
