@@ -34,6 +34,15 @@ import { studiesRouter } from './modules/studies/studies.router.js'
 import { UserService } from './modules/users/user.service.js'
 import { usersRouter } from './modules/users/users.router.js'
 import type { ObjectStore } from './storage/object-store.js'
+import { exportsRouter } from './modules/recruitment/exports.router.js'
+import { ParticipantService } from './modules/recruitment/participant.service.js'
+import { participantsRouter } from './modules/recruitment/participants.router.js'
+import { publicRouter } from './modules/recruitment/public.router.js'
+import { QuestionnaireService } from './modules/recruitment/questionnaire.service.js'
+import { RecruitmentSettingsService } from './modules/recruitment/recruitment-settings.service.js'
+import { RecruitmentSummaryService } from './modules/recruitment/recruitment-summary.service.js'
+import { recruitmentRouter } from './modules/recruitment/recruitment.router.js'
+import { ScreeningLogService } from './modules/recruitment/screening-log.service.js'
 
 export interface AppDeps {
   config: Config
@@ -71,6 +80,11 @@ export function createApp(deps: AppDeps) {
   const studies = new StudyService(dataSource, audit, invitations)
   const members = new MemberService(dataSource, audit)
   const users = new UserService(dataSource, audit, auth, sessions)
+  const questionnaires = new QuestionnaireService(dataSource, audit)
+  const participants = new ParticipantService(dataSource, audit, mail, questionnaires)
+  const recruitmentSettings = new RecruitmentSettingsService(dataSource, audit)
+  const summaries = new RecruitmentSummaryService(dataSource)
+  const screeningLog = new ScreeningLogService(dataSource, audit)
   const authorize = createAuthorize(dataSource)
   const passport = configurePassport(dataSource)
   const csrf = csrfSync({
@@ -125,6 +139,10 @@ export function createApp(deps: AppDeps) {
   api.use(membersRouter({ authorize, members }))
   api.use(invitationsRouter({ authorize, invitations, auth, csrf }))
   api.use(auditRouter({ authorize, audit }))
+  api.use(recruitmentRouter({ authorize, settings: recruitmentSettings, questionnaires, summaries }))
+  api.use(participantsRouter({ authorize, participants }))
+  api.use(exportsRouter({ authorize, screeningLog }))
+  api.use(publicRouter({ authorize, dataSource, pool, participants, questionnaires, perHour: config.PUBLIC_ENQUIRIES_PER_HOUR }))
   if (deps.mailboxDir && config.NODE_ENV !== 'production') api.use(mailboxRouter({ authorize, directory: deps.mailboxDir }))
   api.use(apiNotFound)
 

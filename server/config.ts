@@ -34,6 +34,8 @@ const schema = z.object({
   LOGIN_FAILURES_PER_ACCOUNT: z.coerce.number().int().min(1).max(100).default(10),
   LOGIN_FAILURES_PER_ADDRESS: z.coerce.number().int().min(1).max(10000).default(50),
   LOGIN_WINDOW_MINUTES: z.coerce.number().int().min(1).max(24 * 60).default(15),
+  /** submissions of the public study page per client address and hour */
+  PUBLIC_ENQUIRIES_PER_HOUR: z.coerce.number().int().min(1).max(100000).default(10),
   LOG_LEVEL: z.enum(['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent']).default('info'),
   MIGRATE_ON_START: bool,
   SEED_DEMO: bool,

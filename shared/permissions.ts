@@ -33,6 +33,16 @@ export const STUDY_ACTIONS = {
   'invitations.read': { roles: ['lead'], siteAdmin: false, description: 'see open invitations' },
   'invitations.manage': { roles: ['lead'], siteAdmin: false, description: 'invite people and revoke invitations' },
   'audit.read': { roles: ['lead'], siteAdmin: false, description: "read the study's audit trail" },
+  'recruitment.settings': { roles: ['lead'], siteAdmin: false, description: 'change recruitment settings: sampling, resources, withdrawal rule, public page' },
+  'screeningForm.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'see the screening questionnaire and its versions' },
+  'screeningForm.manage': { roles: ['lead'], siteAdmin: false, description: 'write the screening questionnaire' },
+  'participants.list': { roles: ['lead', 'coordinator', 'coder'], siteAdmin: false, description: 'list participants (coders see pseudonyms and characteristics only)' },
+  'participants.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: "open a participant's record, contact details and screening" },
+  'participants.screen': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'log enquiries and screen participants' },
+  'participants.override': { roles: ['lead'], siteAdmin: false, description: 'override a screening outcome with a written reason' },
+  'recruitment.summary': { roles: everyone, siteAdmin: false, description: 'see recruitment counts (no individual records)' },
+  'exports.screeningLog': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'download the screening log (pseudonyms only)' },
+  'exports.contacts': { roles: ['lead'], siteAdmin: false, description: 'add contact details to an export (audited)' },
 } as const satisfies Record<string, Rule>
 export type StudyAction = keyof typeof STUDY_ACTIONS
 

@@ -49,7 +49,7 @@ export async function createTestContext(overrides: Record<string, string> = {}):
     S3_SECRET_ACCESS_KEY: 'S3RVER',
     S3_FORCE_PATH_STYLE: 'true',
     SMTP_URL: inject('smtpUrl'),
-    LOG_LEVEL: 'silent',
+    LOG_LEVEL: process.env.TEST_LOG_LEVEL ?? 'silent',
     CLIENT_DIST: process.env.TEST_CLIENT_DIST ?? 'dist',
     ...overrides,
     DATABASE_URL: databaseUrl,

@@ -1,4 +1,5 @@
 import { Foundation1796149782369 } from './1796149782369-Foundation.js'
+import { Recruitment1796151704694 } from './1796151704694-Recruitment.js'
 
 /** Every migration class in order; listed, never globbed. */
-export const migrations = [Foundation1796149782369]
+export const migrations = [Foundation1796149782369, Recruitment1796151704694]

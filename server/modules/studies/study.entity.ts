@@ -1,5 +1,6 @@
 import { Column, Entity, Index } from 'typeorm'
 import { BaseEntity } from '../../db/base.entity.js'
+import type { ResourceLink, SamplingCharacteristic, SamplingTarget, WithdrawalRule } from '../../../shared/schemas/recruitment.js'
 
 @Entity('studies')
 export class Study extends BaseEntity {
@@ -27,4 +28,30 @@ export class Study extends BaseEntity {
 
   @Column({ type: 'integer', name: 'target_sample_size', nullable: true })
   targetSampleSize: number | null
+
+  /** recruitment: whether the public study page accepts enquiries */
+  @Column({ type: 'boolean', default: false })
+  recruiting: boolean
+
+  @Column({ type: 'text', name: 'public_summary', default: '' })
+  publicSummary: string
+
+  @Column({ type: 'text', name: 'who_can_take_part', default: '' })
+  whoCanTakePart: string
+
+  @Column({ type: 'jsonb', name: 'sampling_characteristics', default: [] })
+  samplingCharacteristics: SamplingCharacteristic[]
+
+  @Column({ type: 'jsonb', name: 'sampling_targets', default: [] })
+  samplingTargets: SamplingTarget[]
+
+  @Column({ type: 'jsonb', default: [] })
+  resources: ResourceLink[]
+
+  @Column({ type: 'jsonb', name: 'withdrawal_rule', default: { kind: 'any_time' } })
+  withdrawalRule: WithdrawalRule
+
+  /** the last pseudonym number given out; bumped under a row lock so pseudonyms stay gapless */
+  @Column({ type: 'integer', name: 'participant_sequence', default: 0 })
+  participantSequence: number
 }

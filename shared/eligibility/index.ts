@@ -1,0 +1,2 @@
+export { evaluateEligibility } from './evaluate.js'
+export { characteristicsFrom } from './characteristics.js'
