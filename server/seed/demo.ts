@@ -6,6 +6,9 @@ import { Membership } from '../modules/studies/membership.entity.js'
 import { Study } from '../modules/studies/study.entity.js'
 import { User } from '../modules/users/user.entity.js'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_STUDY, DEMO_TEAM } from './demo-data.js'
+import { DEMO_QUESTIONNAIRE, DEMO_RECRUITMENT } from './demo-questionnaire.js'
+import { seedDemoParticipants } from './demo-participants.js'
+import { ScreeningQuestionnaire } from '../modules/recruitment/screening-questionnaire.entity.js'
 
 /**
  * Loads the demo study and one account per role. Idempotent: what exists is left as it is.
@@ -24,7 +27,7 @@ export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Lo
     let study = await manager.findOneBy(Study, { code: DEMO_STUDY.code })
     let created = false
     if (!study) {
-      study = await manager.save(manager.create(Study, DEMO_STUDY))
+      study = await manager.save(manager.create(Study, { ...DEMO_STUDY, ...DEMO_RECRUITMENT }))
       created = true
     }
     for (const member of DEMO_TEAM) {
@@ -34,6 +37,11 @@ export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Lo
       }
     }
     if (created) {
+      const coordinator = DEMO_TEAM.find((m) => m.role === 'coordinator')!
+      const questionnaire = await manager.save(
+        manager.create(ScreeningQuestionnaire, { studyId: study.id, version: 1, ...DEMO_QUESTIONNAIRE, createdById: userIds.get(DEMO_TEAM[0]!.email)! }),
+      )
+      await seedDemoParticipants(manager, study, questionnaire, userIds.get(coordinator.email)!, coordinator.name)
       await manager.getRepository(AuditEvent).save(
         manager.create(AuditEvent, {
           action: 'study.created',
