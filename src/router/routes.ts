@@ -50,6 +50,36 @@ export const routes: RouteRecordRaw[] = [
     meta: { permission: 'study.read', title: 'Study overview' },
   },
   {
+    path: '/studies/:studyId/recruitment',
+    name: 'study-recruitment',
+    component: () => import('@/views/recruitment/RecruitmentView.vue'),
+    meta: { permission: 'recruitment.summary', title: 'Recruitment' },
+  },
+  {
+    path: '/studies/:studyId/recruitment/settings',
+    name: 'study-recruitment-settings',
+    component: () => import('@/views/recruitment/RecruitmentSettingsView.vue'),
+    meta: { permission: 'recruitment.settings', title: 'Recruitment settings' },
+  },
+  {
+    path: '/studies/:studyId/participants',
+    name: 'study-participants',
+    component: () => import('@/views/recruitment/ParticipantsView.vue'),
+    meta: { permission: 'participants.list', title: 'Participants' },
+  },
+  {
+    path: '/studies/:studyId/participants/:participantId',
+    name: 'study-participant',
+    component: () => import('@/views/recruitment/ParticipantView.vue'),
+    meta: { permission: 'participants.read', title: 'Participant' },
+  },
+  {
+    path: '/studies/:studyId/screening-form',
+    name: 'study-screening-form',
+    component: () => import('@/views/recruitment/ScreeningFormView.vue'),
+    meta: { permission: 'screeningForm.read', title: 'Screening questions' },
+  },
+  {
     path: '/studies/:studyId/team',
     name: 'study-team',
     component: () => import('@/views/team/TeamView.vue'),
@@ -60,6 +90,12 @@ export const routes: RouteRecordRaw[] = [
     name: 'study-audit',
     component: () => import('@/views/audit/AuditView.vue'),
     meta: { permission: 'audit.read', title: 'Audit trail' },
+  },
+  {
+    path: '/join/:code',
+    name: 'public-study',
+    component: () => import('@/views/public/PublicStudyView.vue'),
+    meta: { public: true, bare: true, title: 'Take part in a study' },
   },
   { path: '/account', name: 'account', component: () => import('@/views/account/AccountView.vue'), meta: { title: 'Your account' } },
   {

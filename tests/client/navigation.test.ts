@@ -43,3 +43,26 @@ describe('main navigation', () => {
     expect((await linksFor(null, true)).titles).toContain('Site administration')
   })
 })
+
+describe('recruitment sections in the navigation', () => {
+  afterEach(() => {
+    document.body.innerHTML = ''
+  })
+
+  it('shows Participants to a coder but not to a patient partner', async () => {
+    expect((await linksFor('coder')).titles).toContain('Participants')
+    expect((await linksFor('partner')).titles).not.toContain('Participants')
+  })
+
+  it('shows Recruitment to a patient partner, linking to the counts page, but not the screening questions', async () => {
+    const { nav, titles } = await linksFor('partner')
+    expect(titles).toContain('Recruitment')
+    expect(titles).not.toContain('Screening questions')
+    expect(nav.find('a[href="/studies/study-1/recruitment"]').exists()).toBe(true)
+  })
+
+  it('lists Recruitment, Participants and Screening questions right after Overview for the lead researcher', async () => {
+    const { titles } = await linksFor('lead')
+    expect(titles.slice(titles.indexOf('Overview'), titles.indexOf('Overview') + 4)).toEqual(['Overview', 'Recruitment', 'Participants', 'Screening questions'])
+  })
+})
