@@ -34,6 +34,13 @@ import { studiesRouter } from './modules/studies/studies.router.js'
 import { UserService } from './modules/users/user.service.js'
 import { usersRouter } from './modules/users/users.router.js'
 import type { ObjectStore } from './storage/object-store.js'
+import { ConsentFormService } from './modules/consent/consent-form.service.js'
+import { consentFormsRouter } from './modules/consent/consent-forms.router.js'
+import { ConsentSummaryService } from './modules/consent/consent-summary.service.js'
+import { consentRouter } from './modules/consent/consent.router.js'
+import { ConsentService } from './modules/consent/consent.service.js'
+import { publicConsentRouter } from './modules/consent/public-consent.router.js'
+import { WithdrawalService } from './modules/consent/withdrawal.service.js'
 import { exportsRouter } from './modules/recruitment/exports.router.js'
 import { ParticipantService } from './modules/recruitment/participant.service.js'
 import { participantsRouter } from './modules/recruitment/participants.router.js'
@@ -68,7 +75,7 @@ export function createApp(deps: AppDeps) {
   const publicUrl = config.PUBLIC_URL.replace(/\/$/, '')
 
   const audit = new AuditService(dataSource)
-  const mail = new MailService(dataSource, boss, config.MAIL_FROM, log)
+  const mail = new MailService(dataSource, boss, config.MAIL_FROM, log, storage)
   const sessions = new SessionRevoker(pool)
   const throttle = new SignInThrottle(pool, {
     perAccount: config.LOGIN_FAILURES_PER_ACCOUNT,
@@ -85,6 +92,10 @@ export function createApp(deps: AppDeps) {
   const recruitmentSettings = new RecruitmentSettingsService(dataSource, audit)
   const summaries = new RecruitmentSummaryService(dataSource)
   const screeningLog = new ScreeningLogService(dataSource, audit)
+  const consentForms = new ConsentFormService(dataSource, storage, audit)
+  const consent = new ConsentService(dataSource, storage, audit, mail, publicUrl, config.SESSION_SECRET)
+  const withdrawals = new WithdrawalService(dataSource, audit, mail)
+  const consentSummaries = new ConsentSummaryService(dataSource, withdrawals)
   const authorize = createAuthorize(dataSource)
   const passport = configurePassport(dataSource)
   const csrf = csrfSync({
@@ -142,6 +153,9 @@ export function createApp(deps: AppDeps) {
   api.use(recruitmentRouter({ authorize, settings: recruitmentSettings, questionnaires, summaries }))
   api.use(participantsRouter({ authorize, participants }))
   api.use(exportsRouter({ authorize, screeningLog }))
+  api.use(consentFormsRouter({ authorize, forms: consentForms }))
+  api.use(consentRouter({ authorize, consent, withdrawals, summaries: consentSummaries }))
+  api.use(publicConsentRouter({ authorize, consent, withdrawals }))
   api.use(publicRouter({ authorize, dataSource, pool, participants, questionnaires, perHour: config.PUBLIC_ENQUIRIES_PER_HOUR }))
   if (deps.mailboxDir && config.NODE_ENV !== 'production') api.use(mailboxRouter({ authorize, directory: deps.mailboxDir }))
   api.use(apiNotFound)

@@ -68,7 +68,7 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
   await ensureQueues(boss)
   closers.push(() => boss.stop({ graceful: true, timeout: 5000, wait: true }))
   if (config.RUN_WORKER) {
-    await startMailWorker(boss, new MailService(dataSource, boss, config.MAIL_FROM, log), mailTransport)
+    await startMailWorker(boss, new MailService(dataSource, boss, config.MAIL_FROM, log, storage), mailTransport)
   }
 
   if (config.SEED_DEMO) await seedDemo(dataSource, config.NODE_ENV, log)

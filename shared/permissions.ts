@@ -43,6 +43,12 @@ export const STUDY_ACTIONS = {
   'recruitment.summary': { roles: everyone, siteAdmin: false, description: 'see recruitment counts (no individual records)' },
   'exports.screeningLog': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'download the screening log (pseudonyms only)' },
   'exports.contacts': { roles: ['lead'], siteAdmin: false, description: 'add contact details to an export (audited)' },
+  'consentForms.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'see consent form versions and download them' },
+  'consentForms.manage': { roles: ['lead'], siteAdmin: false, description: 'add, edit and approve consent form versions' },
+  'consent.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: "see a participant's consent records and withdrawal" },
+  'consent.record': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'record written or verbal consent and send e-consent links' },
+  'withdrawal.record': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'record a withdrawal and answer withdrawal requests' },
+  'consent.summary': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'see the consent dashboard and the re-consent queue' },
 } as const satisfies Record<string, Rule>
 export type StudyAction = keyof typeof STUDY_ACTIONS
 

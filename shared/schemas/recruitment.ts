@@ -147,7 +147,7 @@ export type EligibilityResult = z.infer<typeof eligibilityResult>
 
 /* ------------------------------------------------------------------ participants */
 
-export const PARTICIPANT_STATUSES = ['enquired', 'screening', 'eligible', 'not_eligible'] as const
+export const PARTICIPANT_STATUSES = ['enquired', 'screening', 'eligible', 'not_eligible', 'consented', 'withdrawn'] as const
 export type ParticipantStatus = (typeof PARTICIPANT_STATUSES)[number]
 export const REFERRAL_SOURCES = ['public_page', 'phone', 'email', 'clinic_referral', 'community_group', 'word_of_mouth', 'other'] as const
 export type ReferralSource = (typeof REFERRAL_SOURCES)[number]

@@ -80,7 +80,7 @@ export async function createTestContext(overrides: Record<string, string> = {}):
     async startMailWorker(smtpUrl = config.SMTP_URL!) {
       const transport = createMailTransport(smtpUrl)
       transports.push(transport)
-      await startMailWorker(boss, new MailService(dataSource, boss, config.MAIL_FROM, log), transport)
+      await startMailWorker(boss, new MailService(dataSource, boss, config.MAIL_FROM, log, storage), transport)
     },
     async close() {
       await boss.stop({ graceful: false, wait: true, timeout: 2000 })

@@ -3,6 +3,7 @@ import type { DataSource, EntityManager } from 'typeorm'
 import type PgBoss from 'pg-boss'
 import type { Transporter } from 'nodemailer'
 import type { Logger } from '../../lib/logger.js'
+import type { ObjectStore } from '../../storage/object-store.js'
 import { OutboxMessage } from './outbox-message.entity.js'
 
 export const MAIL_QUEUE = 'mail-send'
@@ -13,6 +14,8 @@ export interface MailDraft {
   subject: string
   /** plain text; never participant data, only links into Heardwell (HIPAA 164.312(e)) */
   body: string
+  /** files already in the object store (e.g. a consent receipt), attached when sent */
+  attachments?: { filename: string; contentType: string; storageKey: string }[]
 }
 
 /**
@@ -25,6 +28,7 @@ export class MailService {
     private readonly boss: PgBoss,
     private readonly from: string,
     private readonly log: Logger,
+    private readonly storage?: ObjectStore,
   ) {}
 
   async enqueue(manager: EntityManager, draft: MailDraft): Promise<OutboxMessage> {
@@ -35,6 +39,7 @@ export class MailService {
       subject: draft.subject.replace(/[\r\n]+/g, ' '),
       body: draft.body,
       messageId: `<${randomUUID()}@${domain}>`,
+      attachments: draft.attachments ?? [],
       status: 'pending',
     })
     await manager.save(message)
@@ -63,12 +68,17 @@ export class MailService {
     const message = await repo.findOneBy({ id: outboxId })
     if (!message || message.status === 'sent') return
     try {
+      if (message.attachments.length && !this.storage) throw new Error('this mail worker has no object store for attachments')
+      const attachments = await Promise.all(
+        message.attachments.map(async (a) => ({ filename: a.filename, contentType: a.contentType, content: await this.storage!.get(a.storageKey) })),
+      )
       await transport.sendMail({
         from: this.from,
         to: message.to,
         subject: message.subject,
         text: message.body,
         messageId: message.messageId,
+        attachments,
       })
       await repo.update({ id: message.id }, { status: 'sent', sentAt: new Date(), attempts: message.attempts + 1, lastError: null })
     } catch (error) {

@@ -24,6 +24,10 @@ export class OutboxMessage extends BaseEntity {
   @Column({ type: 'varchar', length: 200, name: 'message_id' })
   messageId: string
 
+  /** files to attach, read from the object store when the message is sent */
+  @Column({ type: 'jsonb', default: [] })
+  attachments: { filename: string; contentType: string; storageKey: string }[]
+
   @Column({ type: 'varchar', length: 20, default: 'pending' })
   status: OutboxStatus
 

@@ -1,0 +1,6 @@
+export { CONSENT_ELEMENTS, CONSENT_ELEMENT_SOURCES } from './elements.js'
+export type { ConsentElement, ConsentElementSource } from './elements.js'
+export { describeWithdrawalRule, withinWithdrawalDeadline } from './withdrawal-deadline.js'
+export type { WithdrawalDates } from './withdrawal-deadline.js'
+export { dataUsePolicy } from './data-use-policy.js'
+export type { DataUse, DataUseInput } from './data-use-policy.js'
