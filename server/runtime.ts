@@ -71,7 +71,7 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
     await startMailWorker(boss, new MailService(dataSource, boss, config.MAIL_FROM, log, storage), mailTransport)
   }
 
-  if (config.SEED_DEMO) await seedDemo(dataSource, config.NODE_ENV, log)
+  if (config.SEED_DEMO) await seedDemo(dataSource, config.NODE_ENV, log, storage)
 
   const app = createApp({ config, dataSource, storage, boss, mailTransport, log, mailboxDir })
   const server = await new Promise<Server>((resolve, reject) => {

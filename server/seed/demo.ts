@@ -1,5 +1,7 @@
 import type { DataSource } from 'typeorm'
 import type { Logger } from '../lib/logger.js'
+import type { ObjectStore } from '../storage/object-store.js'
+import { seedDemoConsent } from './demo-consent.js'
 import { AuditEvent } from '../modules/audit/audit-event.entity.js'
 import { hashPassword } from '../modules/auth/passwords.js'
 import { Membership } from '../modules/studies/membership.entity.js'
@@ -14,7 +16,8 @@ import { ScreeningQuestionnaire } from '../modules/recruitment/screening-questio
  * Loads the demo study and one account per role. Idempotent: what exists is left as it is.
  * Refused in production, where demo accounts with a published password must never exist.
  */
-export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Logger): Promise<{ studyId: string }> {
+/** With an object store, the demo also gets its consent form files and consent records. */
+export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Logger, storage?: ObjectStore): Promise<{ studyId: string }> {
   if (nodeEnv === 'production') throw new Error('Refusing to load demo data with NODE_ENV=production.')
   return dataSource.transaction(async (manager) => {
     const passwordHash = await hashPassword(DEMO_PASSWORD)
@@ -42,6 +45,10 @@ export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Lo
         manager.create(ScreeningQuestionnaire, { studyId: study.id, version: 1, ...DEMO_QUESTIONNAIRE, createdById: userIds.get(DEMO_TEAM[0]!.email)! }),
       )
       await seedDemoParticipants(manager, study, questionnaire, userIds.get(coordinator.email)!, coordinator.name)
+      if (storage) {
+        const lead = DEMO_TEAM.find((m) => m.role === 'lead')!
+        await seedDemoConsent(manager, study, storage, { id: userIds.get(lead.email)!, name: lead.name }, { id: userIds.get(coordinator.email)!, name: coordinator.name })
+      }
       await manager.getRepository(AuditEvent).save(
         manager.create(AuditEvent, {
           action: 'study.created',

@@ -1,0 +1,45 @@
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
+import { seedDemo } from '../../server/seed/demo.js'
+import { Client, createTestContext, type TestContext } from '../support/test-app.js'
+
+/** The demo study `npm start` loads: a realistic funnel and consent picture (invented data). */
+let ctx: TestContext
+let studyId: string
+let lead: Client
+beforeAll(async () => {
+  ctx = await createTestContext()
+  studyId = (await seedDemo(ctx.dataSource, 'test', undefined, ctx.storage)).studyId
+  lead = new Client(ctx.app)
+  await lead.signIn('lead@heardwell.test', DEMO_PASSWORD)
+})
+afterAll(() => ctx?.close())
+
+describe('demo study', () => {
+  it('loads once: a second run changes nothing', async () => {
+    const before = await ctx.dataSource.query('SELECT (SELECT count(*) FROM participants) AS p, (SELECT count(*) FROM consent_records) AS c, (SELECT count(*) FROM users) AS u')
+    await seedDemo(ctx.dataSource, 'test', undefined, ctx.storage)
+    expect(await ctx.dataSource.query('SELECT (SELECT count(*) FROM participants) AS p, (SELECT count(*) FROM consent_records) AS c, (SELECT count(*) FROM users) AS u')).toEqual(before)
+    await expect(seedDemo(ctx.dataSource, 'production')).rejects.toThrow(/Refusing/)
+  })
+
+  it('shows a realistic recruitment funnel', async () => {
+    const { funnel, notEnrolledReasons } = (await lead.get(`/api/studies/${studyId}/recruitment/summary`)).body
+    expect(funnel.enquired).toBe(13)
+    expect(funnel.notEligible).toBe(4)
+    expect(funnel.awaitingReview).toBe(1)
+    expect(notEnrolledReasons.map((r: { reason: string }) => r.reason)).toContain('Looking for help with their own care')
+  })
+
+  it('has two form versions, people on each, one in the re-consent queue and one withdrawal with data removed', async () => {
+    const summary = (await lead.get(`/api/studies/${studyId}/consent/summary`)).body
+    expect(summary.perVersion.map((v: { label: string; status: string }) => [v.label, v.status])).toEqual([['v1.0', 'superseded'], ['v2.0', 'approved']])
+    expect(summary.perVersion.every((v: { consented: number }) => v.consented > 0)).toBe(true)
+    expect(summary.reconsentQueue.map((q: { pseudonym: string }) => q.pseudonym)).toEqual(['P01'])
+    expect(summary.withdrawals).toEqual([expect.objectContaining({ pseudonym: 'P08', scope: 'withdraw_data', dataRemoved: true })])
+    expect(summary.waitingLinks.map((l: { pseudonym: string }) => l.pseudonym)).toEqual(['P09'])
+    const forms = (await lead.get(`/api/studies/${studyId}/consent-forms`)).body.forms
+    const file = await lead.get(`/api/studies/${studyId}/consent-forms/${forms[0].id}/file`)
+    expect(file.status).toBe(200)
+  })
+})
