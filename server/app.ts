@@ -3,99 +3,41 @@ import { randomUUID } from 'node:crypto'
 import { existsSync } from 'node:fs'
 import path from 'node:path'
 import express, { type NextFunction, type Request, type Response } from 'express'
-import type { Pool } from 'pg'
-import type PgBoss from 'pg-boss'
-import type { Transporter } from 'nodemailer'
-import type { DataSource } from 'typeorm'
 import { csrfSync } from 'csrf-sync'
-import type { Config } from './config.js'
 import { AppError } from './lib/errors.js'
-import type { Logger } from './lib/logger.js'
 import { createAuthorize } from './middleware/authorize.js'
 import { apiNotFound, createErrorHandler } from './middleware/errors.js'
 import { noStore, sameOriginWrites, securityHeaders } from './middleware/security.js'
 import { auditRouter } from './modules/audit/audit.router.js'
-import { AuditService } from './modules/audit/audit.service.js'
 import { authRouter } from './modules/auth/auth.router.js'
-import { AuthService } from './modules/auth/auth.service.js'
 import { configurePassport } from './modules/auth/passport.js'
 import { createSessionMiddleware, enforceAbsoluteLimit } from './modules/auth/session.js'
-import { SessionRevoker } from './modules/auth/session-store.js'
-import { SignInThrottle } from './modules/auth/sign-in-throttle.js'
 import { healthRouter } from './modules/health/health.router.js'
 import { mailboxRouter } from './modules/mail/mailbox.router.js'
-import { MailService } from './modules/mail/mail.service.js'
-import { InvitationService } from './modules/studies/invitation.service.js'
 import { invitationsRouter } from './modules/studies/invitations.router.js'
-import { MemberService } from './modules/studies/member.service.js'
 import { membersRouter } from './modules/studies/members.router.js'
-import { StudyService } from './modules/studies/study.service.js'
 import { studiesRouter } from './modules/studies/studies.router.js'
-import { UserService } from './modules/users/user.service.js'
 import { usersRouter } from './modules/users/users.router.js'
-import type { ObjectStore } from './storage/object-store.js'
-import { ConsentFormService } from './modules/consent/consent-form.service.js'
+import { buildServices, type AppDeps } from './services.js'
+
+export { poolOf, type AppDeps } from './services.js'
 import { consentFormsRouter } from './modules/consent/consent-forms.router.js'
-import { ConsentSummaryService } from './modules/consent/consent-summary.service.js'
 import { consentRouter } from './modules/consent/consent.router.js'
-import { ConsentService } from './modules/consent/consent.service.js'
 import { publicConsentRouter } from './modules/consent/public-consent.router.js'
-import { WithdrawalService } from './modules/consent/withdrawal.service.js'
 import { exportsRouter } from './modules/recruitment/exports.router.js'
-import { ParticipantService } from './modules/recruitment/participant.service.js'
+import { interviewsRouter } from './modules/interviews/interviews.router.js'
+import { transcriptsRouter } from './modules/transcripts/transcripts.router.js'
 import { participantsRouter } from './modules/recruitment/participants.router.js'
 import { publicRouter } from './modules/recruitment/public.router.js'
-import { QuestionnaireService } from './modules/recruitment/questionnaire.service.js'
-import { RecruitmentSettingsService } from './modules/recruitment/recruitment-settings.service.js'
-import { RecruitmentSummaryService } from './modules/recruitment/recruitment-summary.service.js'
 import { recruitmentRouter } from './modules/recruitment/recruitment.router.js'
-import { ScreeningLogService } from './modules/recruitment/screening-log.service.js'
-
-export interface AppDeps {
-  config: Config
-  dataSource: DataSource
-  storage: ObjectStore
-  boss: PgBoss
-  mailTransport: Transporter
-  log: Logger
-  /** the fake SMTP server's folder, for the development mailbox; absent in production */
-  mailboxDir?: string
-}
-
-/** The app's pg pool: TypeORM's, shared with the session store and the sign-in throttle. */
-export function poolOf(dataSource: DataSource): Pool {
-  return (dataSource.driver as unknown as { master: Pool }).master
-}
 
 /** Builds the Express app (no listen: tests drive it with supertest). */
 export function createApp(deps: AppDeps) {
-  const { config, dataSource, storage, boss, mailTransport, log } = deps
-  const pool = poolOf(dataSource)
+  const { config, dataSource, storage, mailTransport, log } = deps
   const secure = config.PUBLIC_URL.startsWith('https:')
-  const publicUrl = config.PUBLIC_URL.replace(/\/$/, '')
 
-  const audit = new AuditService(dataSource)
-  const mail = new MailService(dataSource, boss, config.MAIL_FROM, log, storage)
-  const sessions = new SessionRevoker(pool)
-  const throttle = new SignInThrottle(pool, {
-    perAccount: config.LOGIN_FAILURES_PER_ACCOUNT,
-    perAddress: config.LOGIN_FAILURES_PER_ADDRESS,
-    windowMinutes: config.LOGIN_WINDOW_MINUTES,
-  })
-  const auth = new AuthService(dataSource, audit, mail, throttle, sessions, publicUrl)
-  const invitations = new InvitationService(dataSource, audit, mail, publicUrl)
-  const studies = new StudyService(dataSource, audit, invitations)
-  const members = new MemberService(dataSource, audit)
-  const users = new UserService(dataSource, audit, auth, sessions)
-  const questionnaires = new QuestionnaireService(dataSource, audit)
-  const participants = new ParticipantService(dataSource, audit, mail, questionnaires)
-  const recruitmentSettings = new RecruitmentSettingsService(dataSource, audit)
-  const summaries = new RecruitmentSummaryService(dataSource)
-  const screeningLog = new ScreeningLogService(dataSource, audit)
-  const consentForms = new ConsentFormService(dataSource, storage, audit)
-  const consent = new ConsentService(dataSource, storage, audit, mail, publicUrl, config.SESSION_SECRET)
-  const withdrawals = new WithdrawalService(dataSource, audit, mail)
-  const consentSummaries = new ConsentSummaryService(dataSource, withdrawals)
+  const services = buildServices(deps)
+  const { pool, publicUrl, audit, sessions, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides, transcripts } = services
   const authorize = createAuthorize(dataSource)
   const passport = configurePassport(dataSource)
   const csrf = csrfSync({
@@ -155,6 +97,8 @@ export function createApp(deps: AppDeps) {
   api.use(exportsRouter({ authorize, screeningLog }))
   api.use(consentFormsRouter({ authorize, forms: consentForms }))
   api.use(consentRouter({ authorize, consent, withdrawals, summaries: consentSummaries }))
+  api.use(interviewsRouter({ authorize, interviews, guides }))
+  api.use(transcriptsRouter({ authorize, transcripts }))
   api.use(publicConsentRouter({ authorize, consent, withdrawals }))
   api.use(publicRouter({ authorize, dataSource, pool, participants, questionnaires, perHour: config.PUBLIC_ENQUIRIES_PER_HOUR }))
   if (deps.mailboxDir && config.NODE_ENV !== 'production') api.use(mailboxRouter({ authorize, directory: deps.mailboxDir }))

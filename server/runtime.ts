@@ -8,7 +8,8 @@ import { createDataSource } from './db/data-source.js'
 import { BOSS_SCHEMA, ensureQueues, migrateDatabase } from './db/migrate.js'
 import type { Logger } from './lib/logger.js'
 import { createMailTransport } from './modules/mail/mail-transport.js'
-import { MailService } from './modules/mail/mail.service.js'
+import { startReminderWorker } from './modules/interviews/reminder-worker.js'
+import { buildServices } from './services.js'
 import { startMailWorker } from './modules/mail/mail-worker.js'
 import { seedDemo } from './seed/demo.js'
 import { ObjectStore } from './storage/object-store.js'
@@ -68,7 +69,9 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
   await ensureQueues(boss)
   closers.push(() => boss.stop({ graceful: true, timeout: 5000, wait: true }))
   if (config.RUN_WORKER) {
-    await startMailWorker(boss, new MailService(dataSource, boss, config.MAIL_FROM, log, storage), mailTransport)
+    const services = buildServices({ config, dataSource, storage, boss, mailTransport, log })
+    await startMailWorker(boss, services.mail, mailTransport)
+    await startReminderWorker(boss, services.interviews)
   }
 
   if (config.SEED_DEMO) await seedDemo(dataSource, config.NODE_ENV, log, storage)

@@ -49,6 +49,13 @@ export const STUDY_ACTIONS = {
   'consent.record': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'record written or verbal consent and send e-consent links' },
   'withdrawal.record': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'record a withdrawal and answer withdrawal requests' },
   'consent.summary': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'see the consent dashboard and the re-consent queue' },
+  'interviews.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'see interviews, their times and field notes, and interview guides' },
+  'interviews.manage': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'schedule, reschedule and close interviews' },
+  'interviewGuides.manage': { roles: ['lead'], siteAdmin: false, description: 'add interview guide versions' },
+  'transcripts.upload': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'upload transcripts and review their de-identification' },
+  'transcripts.approve': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'approve a de-identified transcript' },
+  'transcripts.read': { roles: ['lead', 'coordinator', 'coder'], siteAdmin: false, description: 'read approved, de-identified transcripts' },
+  'anonymisationLog.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'read the anonymisation log (identifiable)' },
 } as const satisfies Record<string, Rule>
 export type StudyAction = keyof typeof STUDY_ACTIONS
 

@@ -2,6 +2,11 @@ import { ConsentForm } from '../modules/consent/consent-form.entity.js'
 import { ConsentLink } from '../modules/consent/consent-link.entity.js'
 import { ConsentRecord } from '../modules/consent/consent-record.entity.js'
 import { Withdrawal, WithdrawalRequest } from '../modules/consent/withdrawal.entity.js'
+import { InterviewGuide } from '../modules/interviews/interview-guide.entity.js'
+import { Interview } from '../modules/interviews/interview.entity.js'
+import { AnonymisationLogEntry } from '../modules/transcripts/anonymisation-log.entity.js'
+import { TranscriptTurn } from '../modules/transcripts/transcript-turn.entity.js'
+import { Transcript } from '../modules/transcripts/transcript.entity.js'
 import { AuditEvent } from '../modules/audit/audit-event.entity.js'
 import { PasswordResetToken } from '../modules/auth/password-reset-token.entity.js'
 import { OutboxMessage } from '../modules/mail/outbox-message.entity.js'
@@ -16,4 +21,4 @@ import { Study } from '../modules/studies/study.entity.js'
 import { User } from '../modules/users/user.entity.js'
 
 /** Every entity class; listed, never globbed (globs break under vitest). */
-export const entities = [User, Study, Membership, Invitation, PasswordResetToken, AuditEvent, OutboxMessage, ScreeningQuestionnaire, Participant, ParticipantContact, Screening, ParticipantEvent, ConsentForm, ConsentRecord, ConsentLink, Withdrawal, WithdrawalRequest]
+export const entities = [User, Study, Membership, Invitation, PasswordResetToken, AuditEvent, OutboxMessage, ScreeningQuestionnaire, Participant, ParticipantContact, Screening, ParticipantEvent, ConsentForm, ConsentRecord, ConsentLink, Withdrawal, WithdrawalRequest, InterviewGuide, Interview, Transcript, TranscriptTurn, AnonymisationLogEntry]

@@ -1,6 +1,7 @@
 import type { DataSource } from 'typeorm'
 import PgBoss from 'pg-boss'
 import { MAIL_QUEUE, MAIL_MAX_ATTEMPTS } from '../modules/mail/mail.service.js'
+import { REMINDER_QUEUE } from '../modules/interviews/interview.service.js'
 
 export const BOSS_SCHEMA = 'pgboss'
 
@@ -21,5 +22,8 @@ export async function migrateDatabase(dataSource: DataSource, databaseUrl: strin
 export async function ensureQueues(boss: PgBoss): Promise<void> {
   if (!(await boss.getQueue(MAIL_QUEUE))) {
     await boss.createQueue(MAIL_QUEUE, { name: MAIL_QUEUE, retryLimit: MAIL_MAX_ATTEMPTS - 1, retryBackoff: true, retryDelay: 5 })
+  }
+  if (!(await boss.getQueue(REMINDER_QUEUE))) {
+    await boss.createQueue(REMINDER_QUEUE, { name: REMINDER_QUEUE, retryLimit: 5, retryBackoff: true, retryDelay: 30 })
   }
 }

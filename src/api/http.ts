@@ -43,15 +43,22 @@ function urlOf(path: string, query?: QueryParams): string {
   return `${BASE}${path}${search ? `?${search}` : ''}`
 }
 
-async function problemFrom(response: Response): Promise<ApiError> {
-  const body: unknown = await response.json().catch(() => null)
+function problemOf(status: number, body: unknown): ApiError {
   const parsed = problemSchema.safeParse(body)
   if (parsed.success) return new ApiError(parsed.data)
   return new ApiError({
     type: 'about:blank',
-    status: response.status,
-    title: response.status >= 500 ? 'Heardwell had a problem on its side. Try again in a moment.' : `The request was refused (${response.status}).`,
+    status,
+    title: status >= 500 ? 'Heardwell had a problem on its side. Try again in a moment.' : `The request was refused (${status}).`,
   })
+}
+
+async function problemFrom(response: Response): Promise<ApiError> {
+  return problemOf(response.status, await response.json().catch(() => null))
+}
+
+function unreadable(status: number): ApiError {
+  return new ApiError({ type: 'unreadable-response', status, title: 'Heardwell sent an answer this page could not read. Reload the page and try again.' })
 }
 
 async function request<S extends z.ZodType>(
@@ -92,9 +99,58 @@ async function request<S extends z.ZodType>(
 
   const payload: unknown = await response.json().catch(() => undefined)
   const parsed = schema.safeParse(payload)
-  if (!parsed.success) {
-    throw new ApiError({ type: 'unreadable-response', status: response.status, title: 'Heardwell sent an answer this page could not read. Reload the page and try again.' })
+  if (!parsed.success) throw unreadable(response.status)
+  return parsed.data
+}
+
+/** Called while a file goes up, with the share sent so far (0 to 1). */
+export type UploadProgress = (fraction: number) => void
+
+interface RawAnswer {
+  status: number
+  body: unknown
+}
+
+/** fetch cannot report upload progress, so files go up through XMLHttpRequest. */
+function send(path: string, form: FormData, token: string, onProgress?: UploadProgress): Promise<RawAnswer> {
+  return new Promise((resolve, reject) => {
+    const xhr = new XMLHttpRequest()
+    xhr.open('POST', urlOf(path))
+    xhr.withCredentials = true
+    xhr.setRequestHeader('Accept', 'application/json')
+    xhr.setRequestHeader('X-CSRF-Token', token)
+    xhr.upload.onprogress = (event) => {
+      if (event.lengthComputable && event.total > 0) onProgress?.(event.loaded / event.total)
+    }
+    xhr.onload = () => {
+      let body: unknown = null
+      try {
+        body = xhr.responseText ? JSON.parse(xhr.responseText) : null
+      } catch {
+        body = null
+      }
+      resolve({ status: xhr.status, body })
+    }
+    xhr.onerror = () => reject(ApiError.unreachable())
+    xhr.onabort = () => reject(ApiError.unreachable())
+    xhr.send(form)
+  })
+}
+
+/** A multipart POST (a file and its `metadata`), with the same CSRF handling and problem details as `request`. */
+async function upload<S extends z.ZodType>(path: string, form: FormData, schema: S, onProgress?: UploadProgress, retried = false): Promise<z.output<S>> {
+  const answer = await send(path, form, await loadCsrfToken(), onProgress)
+  if (answer.status < 200 || answer.status >= 300) {
+    const error = problemOf(answer.status, answer.body)
+    if (answer.status === 403 && error.type.endsWith('csrf') && !retried) {
+      dropCsrfToken()
+      return upload(path, form, schema, onProgress, true)
+    }
+    throw error
   }
+  onProgress?.(1)
+  const parsed = schema.safeParse(answer.body)
+  if (!parsed.success) throw unreadable(answer.status)
   return parsed.data
 }
 
@@ -104,6 +160,7 @@ export const http = {
   put: <S extends z.ZodType>(path: string, body: unknown, schema?: S) => request('PUT', path, body, undefined, schema),
   patch: <S extends z.ZodType>(path: string, body: unknown, schema?: S) => request('PATCH', path, body, undefined, schema),
   delete: (path: string) => request('DELETE', path, undefined, undefined, undefined),
+  upload,
 }
 
 /** Encodes one path segment taken from a route or a record. */

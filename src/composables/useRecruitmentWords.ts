@@ -15,12 +15,16 @@ export const STATUS_WORDS: Record<ParticipantStatus, string> = {
   screening: 'Awaiting review',
   eligible: 'Eligible',
   not_eligible: 'Not eligible',
+  consented: 'Consented',
+  withdrawn: 'Withdrawn',
 }
 export const STATUS_COLOURS: Record<ParticipantStatus, string> = {
   enquired: 'info',
   screening: 'warning',
   eligible: 'success',
   not_eligible: 'secondary',
+  consented: 'primary',
+  withdrawn: 'secondary',
 }
 export const OUTCOME_WORDS: Record<Outcome, string> = {
   eligible: 'Eligible',

@@ -74,6 +74,18 @@ export const routes: RouteRecordRaw[] = [
     meta: { permission: 'participants.read', title: 'Participant' },
   },
   {
+    path: '/studies/:studyId/consent',
+    name: 'study-consent',
+    component: () => import('@/views/consent/ConsentView.vue'),
+    meta: { permission: 'consent.summary', title: 'Consent' },
+  },
+  {
+    path: '/studies/:studyId/consent-forms',
+    name: 'study-consent-forms',
+    component: () => import('@/views/consent/ConsentFormsView.vue'),
+    meta: { permission: 'consentForms.read', title: 'Consent forms' },
+  },
+  {
     path: '/studies/:studyId/screening-form',
     name: 'study-screening-form',
     component: () => import('@/views/recruitment/ScreeningFormView.vue'),
@@ -96,6 +108,18 @@ export const routes: RouteRecordRaw[] = [
     name: 'public-study',
     component: () => import('@/views/public/PublicStudyView.vue'),
     meta: { public: true, bare: true, title: 'Take part in a study' },
+  },
+  {
+    path: '/consent/:token',
+    name: 'public-consent',
+    component: () => import('@/views/public/PublicConsentView.vue'),
+    meta: { public: true, bare: true, title: 'Consent to take part' },
+  },
+  {
+    path: '/withdraw/:token',
+    name: 'public-withdrawal',
+    component: () => import('@/views/public/PublicWithdrawalView.vue'),
+    meta: { public: true, bare: true, title: 'Stop taking part' },
   },
   { path: '/account', name: 'account', component: () => import('@/views/account/AccountView.vue'), meta: { title: 'Your account' } },
   {

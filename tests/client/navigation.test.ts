@@ -61,8 +61,37 @@ describe('recruitment sections in the navigation', () => {
     expect(nav.find('a[href="/studies/study-1/recruitment"]').exists()).toBe(true)
   })
 
-  it('lists Recruitment, Participants and Screening questions right after Overview for the lead researcher', async () => {
+  it('lists Recruitment, Participants, the consent sections and Screening questions right after Overview for the lead researcher', async () => {
     const { titles } = await linksFor('lead')
-    expect(titles.slice(titles.indexOf('Overview'), titles.indexOf('Overview') + 4)).toEqual(['Overview', 'Recruitment', 'Participants', 'Screening questions'])
+    expect(titles.slice(titles.indexOf('Overview'), titles.indexOf('Overview') + 6)).toEqual([
+      'Overview',
+      'Recruitment',
+      'Participants',
+      'Consent',
+      'Consent forms',
+      'Screening questions',
+    ])
+  })
+})
+
+describe('consent sections in the navigation', () => {
+  afterEach(() => {
+    document.body.innerHTML = ''
+  })
+
+  it('shows Consent and Consent forms to a coordinator, linking to their pages', async () => {
+    const { nav, titles } = await linksFor('coordinator')
+    expect(titles).toContain('Consent')
+    expect(titles).toContain('Consent forms')
+    expect(nav.find('a[href="/studies/study-1/consent"]').exists()).toBe(true)
+    expect(nav.find('a[href="/studies/study-1/consent-forms"]').exists()).toBe(true)
+  })
+
+  it('hides Consent and Consent forms from a coder and a patient partner', async () => {
+    for (const role of ['coder', 'partner'] as const) {
+      const { titles } = await linksFor(role)
+      expect(titles).not.toContain('Consent')
+      expect(titles).not.toContain('Consent forms')
+    }
   })
 })

@@ -9,13 +9,15 @@ import { OutboxMessage } from './outbox-message.entity.js'
 export const MAIL_QUEUE = 'mail-send'
 export const MAIL_MAX_ATTEMPTS = 12
 
+export type MailAttachment = { filename: string; contentType: string } & ({ storageKey: string; content?: undefined } | { content: string; storageKey?: undefined })
+
 export interface MailDraft {
   to: string
   subject: string
   /** plain text; never participant data, only links into Heardwell (HIPAA 164.312(e)) */
   body: string
-  /** files already in the object store (e.g. a consent receipt), attached when sent */
-  attachments?: { filename: string; contentType: string; storageKey: string }[]
+  /** files attached when sent: from the object store (e.g. a consent receipt) or small inline text (e.g. a calendar file) */
+  attachments?: MailAttachment[]
 }
 
 /**
@@ -68,9 +70,12 @@ export class MailService {
     const message = await repo.findOneBy({ id: outboxId })
     if (!message || message.status === 'sent') return
     try {
-      if (message.attachments.length && !this.storage) throw new Error('this mail worker has no object store for attachments')
       const attachments = await Promise.all(
-        message.attachments.map(async (a) => ({ filename: a.filename, contentType: a.contentType, content: await this.storage!.get(a.storageKey) })),
+        message.attachments.map(async (a) => {
+          if (a.content !== undefined) return { filename: a.filename, contentType: a.contentType, content: a.content }
+          if (!this.storage) throw new Error('this mail worker has no object store for attachments')
+          return { filename: a.filename, contentType: a.contentType, content: await this.storage.get(a.storageKey!) }
+        }),
       )
       await transport.sendMail({
         from: this.from,

@@ -1,5 +1,6 @@
 import { Column, Entity, Index } from 'typeorm'
 import { BaseEntity } from '../../db/base.entity.js'
+import type { MailAttachment } from './mail.service.js'
 
 export type OutboxStatus = 'pending' | 'sent' | 'failed'
 
@@ -26,7 +27,7 @@ export class OutboxMessage extends BaseEntity {
 
   /** files to attach, read from the object store when the message is sent */
   @Column({ type: 'jsonb', default: [] })
-  attachments: { filename: string; contentType: string; storageKey: string }[]
+  attachments: MailAttachment[]
 
   @Column({ type: 'varchar', length: 20, default: 'pending' })
   status: OutboxStatus

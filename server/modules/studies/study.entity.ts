@@ -54,4 +54,8 @@ export class Study extends BaseEntity {
   /** the last pseudonym number given out; bumped under a row lock so pseudonyms stay gapless */
   @Column({ type: 'integer', name: 'participant_sequence', default: 0 })
   participantSequence: number
+
+  /** consistent de-identification placeholders across the study's transcripts (term → placeholder) */
+  @Column({ type: 'jsonb', name: 'placeholder_registry', default: {} })
+  placeholderRegistry: Record<string, { placeholder: string; category: string }>
 }

@@ -1,0 +1,235 @@
+import { randomUUID } from 'node:crypto'
+import type { DataSource } from 'typeorm'
+import type { StudyRole } from '../../../shared/permissions.js'
+import { applyRedactions, PlaceholderRegistry, scanForIdentifiers, type IdentifierCategory } from '../../../shared/deidentify/index.js'
+import type { Flag, FlagDecisions, TranscriptReading, TranscriptReview, TranscriptSummary } from '../../../shared/schemas/interviews.js'
+import { AppError, ConflictError, NotFoundError, UnavailableError, ValidationError } from '../../lib/errors.js'
+import type { ObjectStore } from '../../storage/object-store.js'
+import type { AuditActor, AuditService } from '../audit/audit.service.js'
+import type { ConsentService } from '../consent/consent.service.js'
+import { Interview } from '../interviews/interview.entity.js'
+import { ParticipantContact } from '../recruitment/participant-contact.entity.js'
+import { Participant } from '../recruitment/participant.entity.js'
+import { Study } from '../studies/study.entity.js'
+import { User } from '../users/user.entity.js'
+import { AnonymisationLogEntry } from './anonymisation-log.entity.js'
+import { remapOffset } from './offsets.js'
+import { deidentifySpeaker } from './speaker-labels.js'
+import { parseTranscript, TranscriptParseError, type ParsedTranscript } from './parsing/index.js'
+import { acceptedSpans, applyDecisions } from './transcript-flags.js'
+import { TranscriptTurn } from './transcript-turn.entity.js'
+import { Transcript } from './transcript.entity.js'
+
+const STAFF: readonly StudyRole[] = ['lead', 'coordinator']
+
+function storageFailure(error: unknown): boolean {
+  const e = error as { name?: string; code?: string; $metadata?: unknown }
+  return Boolean(e?.$metadata) || ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE'].includes(e?.code ?? '') || e?.name === 'TimeoutError'
+}
+
+/**
+ * Transcripts: upload to quarantine, assisted scan, a person's review, and approval, after which only
+ * the de-identified text is kept (object store, with its SHA-256) and the quarantine is deleted.
+ */
+export class TranscriptService {
+  constructor(
+    private readonly dataSource: DataSource,
+    private readonly storage: ObjectStore,
+    private readonly audit: AuditService,
+    private readonly consent: ConsentService,
+  ) {}
+
+  private async summaries(rows: Transcript[]): Promise<TranscriptSummary[]> {
+    if (!rows.length) return []
+    const interviews = new Map((await this.dataSource.getRepository(Interview).findBy(rows.map((r) => ({ id: r.interviewId })))).map((i) => [i.id, i]))
+    const participants = new Map((await this.dataSource.getRepository(Participant).findBy(rows.map((r) => ({ id: r.participantId })))).map((p) => [p.id, p]))
+    return rows.map((t) => ({
+      id: t.id,
+      interviewId: t.interviewId,
+      participantId: t.participantId,
+      pseudonym: participants.get(t.participantId)?.pseudonym ?? '',
+      interviewDate: interviews.get(t.interviewId)?.scheduledAt.toISOString() ?? '',
+      version: t.version,
+      status: t.status,
+      format: t.format,
+      wordCount: t.wordCount,
+      createdAt: t.createdAt.toISOString(),
+    }))
+  }
+
+  /** What may be coded: only participants whose consent allows it (the one data-use policy). */
+  private async codable(studyId: string, participantIds: string[]): Promise<Set<string>> {
+    const allowed = new Set<string>()
+    for (const id of new Set(participantIds)) if ((await this.consent.view(studyId, id)).dataUse.mayCode) allowed.add(id)
+    return allowed
+  }
+
+  /** Lead and coordinators see every version in any state; coders only approved ones they may code. */
+  async list(studyId: string, role: StudyRole | null): Promise<TranscriptSummary[]> {
+    const staff = role !== null && STAFF.includes(role)
+    const rows = await this.dataSource.getRepository(Transcript).find({ where: { studyId, ...(staff ? {} : { status: 'approved' as const }) }, order: { createdAt: 'ASC' } })
+    const allowed = staff ? null : await this.codable(studyId, rows.map((r) => r.participantId))
+    return this.summaries(allowed ? rows.filter((r) => allowed.has(r.participantId)) : rows)
+  }
+
+  async upload(studyId: string, interviewId: string, buffer: Buffer, actor: AuditActor): Promise<TranscriptSummary> {
+    const interview = await this.dataSource.getRepository(Interview).findOneBy({ id: interviewId, studyId })
+    if (!interview) throw new NotFoundError('interview')
+    if (interview.notesOnly) throw new ConflictError('The participant declined audio recording, so this interview keeps field notes only and takes no transcript.')
+    if (interview.status !== 'done') throw new ConflictError('Mark the interview as done before uploading its transcript.')
+    const use = (await this.consent.view(studyId, interview.participantId)).dataUse
+    if (!use.mayCode) throw new ConflictError('This participant’s consent does not allow their interview to be used (no valid consent, or data withdrawn).')
+    let parsed: ParsedTranscript
+    try {
+      parsed = await parseTranscript(buffer)
+    } catch (error) {
+      if (error instanceof TranscriptParseError) throw new ValidationError(error.message, [{ path: 'file', message: error.message }])
+      throw error
+    }
+    const contact = await this.dataSource.getRepository(ParticipantContact).findOneBy({ participantId: interview.participantId })
+    const study = await this.dataSource.getRepository(Study).findOneByOrFail({ id: studyId })
+    const studyTerms = [
+      ...(contact?.name ? [contact.name, ...contact.name.split(/\s+/).filter((part) => part.length > 2)].map((term) => ({ term, category: 'name' as const })) : []),
+      ...Object.entries(study.placeholderRegistry).map(([term, v]) => ({ term, category: v.category as IdentifierCategory })),
+    ]
+    const flags: Flag[] = scanForIdentifiers(parsed.text, { studyTerms }).map((f) => ({ id: randomUUID(), ...f, source: 'scanner' as const, decision: 'pending' as const }))
+    const id = randomUUID()
+    const prefix = `quarantine/studies/${studyId}/transcripts/${id}`
+    try {
+      await this.storage.put(`${prefix}/upload`, buffer, 'application/octet-stream')
+      await this.storage.put(`${prefix}/parsed.json`, Buffer.from(JSON.stringify(parsed)), 'application/json')
+    } catch (error) {
+      await this.removeQuarantine(prefix)
+      if (storageFailure(error)) throw new UnavailableError('File storage')
+      throw error
+    }
+    try {
+      const saved = await this.dataSource.transaction(async (manager) => {
+        const [{ next }] = await manager.query(`SELECT coalesce(max(version), 0) + 1 AS next FROM transcripts WHERE interview_id = $1`, [interviewId])
+        const row = await manager.save(
+          manager.create(Transcript, { id, studyId, interviewId, participantId: interview.participantId, version: next, status: 'in_review', format: parsed.format, wordCount: parsed.wordCount, quarantinePrefix: prefix, flags, uploadedById: actor.id }),
+        )
+        await this.audit.record(actor, { action: 'transcript.uploaded', studyId, targetType: 'transcript', targetId: id, details: { version: next, format: parsed.format, flags: flags.length } }, manager)
+        return row
+      })
+      return (await this.summaries([saved]))[0]!
+    } catch (error) {
+      await this.removeQuarantine(prefix)
+      throw error
+    }
+  }
+
+  private async removeQuarantine(prefix: string | null) {
+    if (!prefix) return
+    await Promise.all([this.storage.delete(`${prefix}/upload`).catch(() => {}), this.storage.delete(`${prefix}/parsed.json`).catch(() => {})])
+  }
+
+  private async inReview(studyId: string, transcriptId: string): Promise<{ row: Transcript; parsed: ParsedTranscript }> {
+    const row = await this.dataSource.getRepository(Transcript).findOneBy({ id: transcriptId, studyId })
+    if (!row) throw new NotFoundError('transcript')
+    if (row.status !== 'in_review') throw new ConflictError(`This transcript is ${row.status.replace('_', ' ')}; its review is closed.`)
+    let raw: Buffer
+    try {
+      raw = await this.storage.get(`${row.quarantinePrefix}/parsed.json`)
+    } catch (error) {
+      if (storageFailure(error)) throw new UnavailableError('File storage')
+      throw error
+    }
+    return { row, parsed: JSON.parse(raw.toString('utf8')) as ParsedTranscript }
+  }
+
+  async review(studyId: string, transcriptId: string): Promise<TranscriptReview> {
+    const { row, parsed } = await this.inReview(studyId, transcriptId)
+    const [summary] = await this.summaries([row])
+    return { ...summary!, text: parsed.text, turns: parsed.turns.map((t) => ({ speaker: t.speaker, startMs: t.startMs, start: t.start, end: t.end })), flags: row.flags }
+  }
+
+  async decide(studyId: string, transcriptId: string, input: FlagDecisions, actor: AuditActor): Promise<TranscriptReview> {
+    const { row, parsed } = await this.inReview(studyId, transcriptId)
+    const flags = applyDecisions(parsed.text, row.flags, input)
+    await this.dataSource.getRepository(Transcript).update({ id: row.id }, { flags: flags as never })
+    await this.audit.record(actor, { action: 'transcript.flags_reviewed', studyId, targetType: 'transcript', targetId: row.id, details: { decisions: input.decisions.length, everywhere: input.acceptEverywhere.length, manual: input.manual.length } })
+    return this.review(studyId, transcriptId)
+  }
+
+  /**
+   * Replaces every accepted flag with the study's consistent placeholder, stores the de-identified
+   * text and its turns, logs each replacement, and deletes the quarantine. If the object store is down
+   * the transaction rolls back and nothing is half-saved.
+   */
+  async approve(studyId: string, transcriptId: string, actor: AuditActor): Promise<TranscriptSummary> {
+    const { row, parsed } = await this.inReview(studyId, transcriptId)
+    const pending = row.flags.filter((f) => f.decision === 'pending').length
+    if (pending) throw new ConflictError(`${pending} flag${pending === 1 ? '' : 's'} still need${pending === 1 ? 's' : ''} a decision. Accept or reject each one, then approve.`)
+    const objectKey = `studies/${studyId}/transcripts/${row.id}/v${row.version}.txt`
+    try {
+      await this.dataSource.transaction(async (manager) => {
+        const study = await manager.findOne(Study, { where: { id: studyId }, lock: { mode: 'pessimistic_write' } })
+        const registry = new PlaceholderRegistry(study!.placeholderRegistry as never)
+        const spans = acceptedSpans(parsed.text, row.flags)
+        const { text, log } = applyRedactions(parsed.text, spans, registry)
+        const edits = log.map((l) => ({ start: l.start, end: l.end, replacementLength: l.placeholder.length }))
+        const by = actor.id ? ((await manager.findOneBy(User, { id: actor.id }))?.name ?? null) : null
+        const participant = await manager.findOneByOrFail(Participant, { id: row.participantId })
+        const contact = await manager.findOneBy(ParticipantContact, { participantId: row.participantId })
+        const speakerContext = {
+          pseudonym: participant.pseudonym,
+          nameParts: (contact?.name ?? '').toLowerCase().split(/\s+/).filter((part) => part.length > 2),
+          replacements: log.map((l) => ({ term: l.original, placeholder: l.placeholder })),
+        }
+        await manager.insert(
+          TranscriptTurn,
+          parsed.turns.map((t, position) => ({
+            transcriptId: row.id,
+            position,
+            speaker: deidentifySpeaker(t.speaker, speakerContext).slice(0, 80),
+            startMs: t.startMs,
+            start: remapOffset(t.start, edits, 'start'),
+            end: remapOffset(t.end, edits, 'end'),
+          })),
+        )
+        if (log.length) {
+          await manager.insert(AnonymisationLogEntry, log.map((l) => ({ studyId, transcriptId: row.id, original: l.original.slice(0, 300), placeholder: l.placeholder, category: l.category, byId: actor.id, byName: by })))
+        }
+        await manager.update(Study, { id: studyId }, { placeholderRegistry: registry.toJSON() as never })
+        const stored = await this.storage.put(objectKey, Buffer.from(text, 'utf8'), 'text/plain; charset=utf-8')
+        await manager.update(Transcript, { id: row.id }, { status: 'approved', objectKey, sha256: stored.sha256, flags: [] as never, quarantinePrefix: null, approvedById: actor.id, approvedAt: new Date() })
+        await this.audit.record(actor, { action: 'transcript.approved', studyId, targetType: 'transcript', targetId: row.id, details: { version: row.version, replacements: log.length, sha256: stored.sha256 } }, manager)
+      })
+    } catch (error) {
+      await this.storage.delete(objectKey).catch(() => {})
+      if (storageFailure(error)) throw new AppError(503, 'unavailable', 'File storage unavailable', 'The transcript could not be stored right now, and nothing was saved. Please try approving again in a minute.')
+      throw error
+    }
+    await this.removeQuarantine(row.quarantinePrefix)
+    const approved = await this.dataSource.getRepository(Transcript).findOneByOrFail({ id: row.id })
+    return (await this.summaries([approved]))[0]!
+  }
+
+  async reject(studyId: string, transcriptId: string, actor: AuditActor): Promise<TranscriptSummary> {
+    const { row } = await this.inReview(studyId, transcriptId)
+    await this.dataSource.transaction(async (manager) => {
+      await manager.update(Transcript, { id: row.id }, { status: 'rejected', flags: [] as never, quarantinePrefix: null })
+      await this.audit.record(actor, { action: 'transcript.rejected', studyId, targetType: 'transcript', targetId: row.id, details: { version: row.version } }, manager)
+    })
+    await this.removeQuarantine(row.quarantinePrefix)
+    return (await this.summaries([{ ...row, status: 'rejected' } as Transcript]))[0]!
+  }
+
+  /** The approved, de-identified text, for anyone who may read it and only while consent allows coding. */
+  async read(studyId: string, transcriptId: string): Promise<TranscriptReading> {
+    const row = await this.dataSource.getRepository(Transcript).findOneBy({ id: transcriptId, studyId, status: 'approved' })
+    if (!row || !(await this.codable(studyId, [row.participantId])).has(row.participantId)) throw new NotFoundError('approved transcript')
+    const [summary] = await this.summaries([row])
+    const text = (await this.storage.get(row.objectKey!, row.sha256!)).toString('utf8')
+    const turns = await this.dataSource.getRepository(TranscriptTurn).find({ where: { transcriptId }, order: { position: 'ASC' } })
+    return { ...summary!, text, sha256: row.sha256!, turns: turns.map((t) => ({ speaker: t.speaker, startMs: t.startMs, start: t.start, end: t.end })) }
+  }
+
+  async anonymisationLog(studyId: string) {
+    const entries = await this.dataSource.getRepository(AnonymisationLogEntry).find({ where: { studyId }, order: { at: 'DESC' }, take: 2000 })
+    const transcripts = await this.summaries(entries.length ? await this.dataSource.getRepository(Transcript).findBy([...new Set(entries.map((e) => e.transcriptId))].map((id) => ({ id }))) : [])
+    const byId = new Map(transcripts.map((t) => [t.id, t]))
+    return entries.map((e) => ({ id: e.id, transcriptId: e.transcriptId, pseudonym: byId.get(e.transcriptId)?.pseudonym ?? '', version: byId.get(e.transcriptId)?.version ?? 0, original: e.original, placeholder: e.placeholder, category: e.category, by: e.byName, at: e.at.toISOString() }))
+  }
+}

@@ -1,0 +1,7 @@
+export { IDENTIFIER_CATEGORIES } from './categories.js'
+export type { Flag, IdentifierCategory } from './categories.js'
+export { scanForIdentifiers } from './scan.js'
+export type { CountryCode, ScanOptions } from './scan.js'
+export { RESTRICTED_ZIP3, safeHarborAge, safeHarborDate, safeHarborZip } from './safe-harbor.js'
+export { PLACEHOLDER_LABELS, PlaceholderRegistry, applyRedactions, normaliseTerm } from './placeholders.js'
+export type { PlaceholderEntries, Redaction, RedactionLogEntry } from './placeholders.js'
