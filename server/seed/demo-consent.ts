@@ -88,6 +88,14 @@ export async function seedDemoConsent(manager: EntityManager, study: Study, stor
     ['P03', v2, 'electronic', { ...yes, future_contact: false }, 35],
     ['P06', v2, 'electronic', { ...yes, direct_quotes: false }, 30],
     ['P08', v1, 'verbal', yes, 28], // withdraws with data removed
+    ['P14', v2, 'electronic', yes, 25],
+    ['P15', v2, 'verbal', yes, 24],
+    ['P16', v2, 'electronic', { ...yes, direct_quotes: false }, 23],
+    ['P17', v2, 'electronic', yes, 21],
+    ['P18', v2, 'verbal', { ...yes, future_contact: false }, 19],
+    ['P19', v2, 'electronic', yes, 17],
+    ['P20', v2, 'electronic', yes, 15],
+    ['P21', v2, 'verbal', yes, 13],
   ]
   for (const [pseudonym, form, method, clauses, daysAgo] of plan) {
     const p = byPseudonym.get(pseudonym)

@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm'
 import type { Logger } from '../lib/logger.js'
 import type { ObjectStore } from '../storage/object-store.js'
 import { seedDemoConsent } from './demo-consent.js'
+import { seedDemoInterviews } from './demo-transcripts.js'
 import { AuditEvent } from '../modules/audit/audit-event.entity.js'
 import { hashPassword } from '../modules/auth/passwords.js'
 import { Membership } from '../modules/studies/membership.entity.js'
@@ -48,6 +49,7 @@ export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Lo
       if (storage) {
         const lead = DEMO_TEAM.find((m) => m.role === 'lead')!
         await seedDemoConsent(manager, study, storage, { id: userIds.get(lead.email)!, name: lead.name }, { id: userIds.get(coordinator.email)!, name: coordinator.name })
+        await seedDemoInterviews(manager, study, storage, { lead: userIds.get(lead.email)!, coordinator: userIds.get(coordinator.email)! })
       }
       await manager.getRepository(AuditEvent).save(
         manager.create(AuditEvent, {

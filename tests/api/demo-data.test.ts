@@ -25,7 +25,7 @@ describe('demo study', () => {
 
   it('shows a realistic recruitment funnel', async () => {
     const { funnel, notEnrolledReasons } = (await lead.get(`/api/studies/${studyId}/recruitment/summary`)).body
-    expect(funnel.enquired).toBe(13)
+    expect(funnel.enquired).toBe(21)
     expect(funnel.notEligible).toBe(4)
     expect(funnel.awaitingReview).toBe(1)
     expect(notEnrolledReasons.map((r: { reason: string }) => r.reason)).toContain('Looking for help with their own care')
@@ -41,5 +41,19 @@ describe('demo study', () => {
     const forms = (await lead.get(`/api/studies/${studyId}/consent-forms`)).body.forms
     const file = await lead.get(`/api/studies/${studyId}/consent-forms/${forms[0].id}/file`)
     expect(file.status).toBe(200)
+  })
+
+  it('has interviews in at least three time zones and a dozen approved transcripts, the withdrawn one excluded', async () => {
+    const interviews = (await lead.get(`/api/studies/${studyId}/interviews`)).body.interviews
+    const zones = new Set(interviews.flatMap((i: { participantTimeZone: string; interviewerTimeZone: string }) => [i.participantTimeZone, i.interviewerTimeZone]))
+    expect(zones.size).toBeGreaterThanOrEqual(3)
+    const coder = new Client(ctx.app)
+    await coder.signIn('coder1@heardwell.test', DEMO_PASSWORD)
+    const transcripts = (await coder.get(`/api/studies/${studyId}/transcripts`)).body.transcripts
+    expect(transcripts).toHaveLength(12)
+    expect(transcripts.some((t: { pseudonym: string }) => t.pseudonym === 'P08')).toBe(false)
+    const reading = (await coder.get(`/api/studies/${studyId}/transcripts/${transcripts[0].id}`)).body
+    expect(reading.turns.length).toBe(12)
+    for (const turn of reading.turns) expect(reading.text.slice(turn.start, turn.end).trim().length).toBeGreaterThan(10)
   })
 })
