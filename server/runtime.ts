@@ -10,6 +10,7 @@ import type { Logger } from './lib/logger.js'
 import { createMailTransport } from './modules/mail/mail-transport.js'
 import { startReminderWorker } from './modules/interviews/reminder-worker.js'
 import { buildServices } from './services.js'
+import { purgeWithdrawnData, startPurgeSchedule } from './modules/transcripts/withdrawn-data-purge.js'
 import { startMailWorker } from './modules/mail/mail-worker.js'
 import { seedDemo } from './seed/demo.js'
 import { ObjectStore } from './storage/object-store.js'
@@ -72,6 +73,7 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
     const services = buildServices({ config, dataSource, storage, boss, mailTransport, log })
     await startMailWorker(boss, services.mail, mailTransport)
     await startReminderWorker(boss, services.interviews)
+    await startPurgeSchedule(boss, () => purgeWithdrawnData(dataSource, storage, services.audit))
   }
 
   if (config.SEED_DEMO) await seedDemo(dataSource, config.NODE_ENV, log, storage)

@@ -2,6 +2,7 @@ import type { DataSource } from 'typeorm'
 import PgBoss from 'pg-boss'
 import { MAIL_QUEUE, MAIL_MAX_ATTEMPTS } from '../modules/mail/mail.service.js'
 import { REMINDER_QUEUE } from '../modules/interviews/interview.service.js'
+import { PURGE_QUEUE } from '../modules/transcripts/withdrawn-data-purge.js'
 
 export const BOSS_SCHEMA = 'pgboss'
 
@@ -26,4 +27,5 @@ export async function ensureQueues(boss: PgBoss): Promise<void> {
   if (!(await boss.getQueue(REMINDER_QUEUE))) {
     await boss.createQueue(REMINDER_QUEUE, { name: REMINDER_QUEUE, retryLimit: 5, retryBackoff: true, retryDelay: 30 })
   }
+  if (!(await boss.getQueue(PURGE_QUEUE))) await boss.createQueue(PURGE_QUEUE, { name: PURGE_QUEUE, retryLimit: 3 })
 }

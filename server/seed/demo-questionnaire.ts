@@ -41,6 +41,7 @@ export const DEMO_RECRUITMENT: RecruitmentSettings = {
     { title: 'Carers’ advice service', text: 'Help with benefits, respite and looking after yourself as a carer.', url: 'https://carers-advice.example.org' },
   ],
   withdrawalRule: { kind: 'days_after_interview', days: 30 },
+  dataRemovalGraceDays: 14,
 }
 
 export const DEMO_QUESTIONNAIRE: QuestionnaireInput = {

@@ -49,6 +49,8 @@ export const recruitmentSettings = z.strictObject({
   samplingTargets: z.array(samplingTarget).max(400),
   resources: z.array(resourceLink).max(30),
   withdrawalRule: withdrawalRule,
+  /** days after a withdrawal of data before the participant's transcript files are deleted */
+  dataRemovalGraceDays: z.number().int().min(0).max(3650),
 })
 export type RecruitmentSettings = z.infer<typeof recruitmentSettings>
 export const recruitmentSettingsUpdate = recruitmentSettings.partial()

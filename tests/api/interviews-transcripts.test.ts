@@ -1,4 +1,6 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { AuditService } from '../../server/modules/audit/audit.service.js'
+import { purgeWithdrawnData } from '../../server/modules/transcripts/withdrawn-data-purge.js'
 import { makeTeam, TEST_PASSWORD, uniqueEmail } from '../support/factories.js'
 import { buildDocx } from '../fixtures/transcripts/docx.js'
 import { consentedParticipant, doneInterview, uploadTranscript } from '../support/interviews.js'
@@ -199,5 +201,15 @@ describe('transcripts', () => {
     await coordinator.post(`${base()}/participants/${pid}/withdrawal`, { scope: 'withdraw_data', effectiveDate: new Date().toISOString().slice(0, 10) })
     expect((await coder.get(`${base()}/transcripts/${up.body.id}`)).status).toBe(404)
     expect((await coder.get(`${base()}/transcripts`)).body.transcripts.some((t: { id: string }) => t.id === up.body.id)).toBe(false)
+    // the file itself goes after the study's grace period (this study set 14 days), not before
+    const [{ object_key: key }] = await ctx.dataSource.query('SELECT object_key FROM transcripts WHERE id = $1', [up.body.id])
+    const audit = new AuditService(ctx.dataSource)
+    expect(await purgeWithdrawnData(ctx.dataSource, ctx.storage, audit, new Date(Date.now() + 13 * 86_400_000))).toBe(0)
+    expect(await ctx.storage.head(key)).not.toBeNull()
+    expect(await purgeWithdrawnData(ctx.dataSource, ctx.storage, audit, new Date(Date.now() + 15 * 86_400_000))).toBe(1)
+    expect(await ctx.storage.head(key)).toBeNull()
+    const [purged] = await ctx.dataSource.query('SELECT purged_at, object_key FROM transcripts WHERE id = $1', [up.body.id])
+    expect(purged.purged_at).not.toBeNull()
+    expect(purged.object_key).toBeNull()
   })
 })

@@ -13,6 +13,7 @@ export function settingsOf(study: Study): RecruitmentSettings {
     samplingTargets: study.samplingTargets,
     resources: study.resources,
     withdrawalRule: study.withdrawalRule,
+    dataRemovalGraceDays: study.dataRemovalGraceDays,
   }
 }
 

@@ -58,4 +58,8 @@ export class Study extends BaseEntity {
   /** consistent de-identification placeholders across the study's transcripts (term → placeholder) */
   @Column({ type: 'jsonb', name: 'placeholder_registry', default: {} })
   placeholderRegistry: Record<string, { placeholder: string; category: string }>
+
+  /** days after a withdrawal of data before the participant's transcript files are deleted from the store */
+  @Column({ type: 'integer', name: 'data_removal_grace_days', default: 30 })
+  dataRemovalGraceDays: number
 }

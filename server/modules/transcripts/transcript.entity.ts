@@ -52,4 +52,8 @@ export class Transcript extends BaseEntity {
 
   @Column({ type: 'timestamptz', name: 'approved_at', nullable: true })
   approvedAt: Date | null
+
+  /** when the file was deleted from the store after the participant withdrew their data */
+  @Column({ type: 'timestamptz', name: 'purged_at', nullable: true })
+  purgedAt: Date | null
 }
