@@ -48,11 +48,11 @@ export const screenAgain = (studyId: string, participantId: string, body: { answ
 export const overrideOutcome = (studyId: string, participantId: string, body: OverrideRequest): Promise<ParticipantDetail> =>
   http.post(`${base(studyId)}/${segment(participantId)}/override`, body, participantDetail)
 
-export function useParticipantPageQuery(studyId: MaybeRefOrGetter<string>, filter: MaybeRefOrGetter<ParticipantFilter>) {
+export function useParticipantPageQuery(studyId: MaybeRefOrGetter<string>, filter: MaybeRefOrGetter<ParticipantFilter>, enabled: MaybeRefOrGetter<boolean> = true) {
   return useQuery({
     key: () => participantKeys.page(toValue(studyId), toValue(filter)),
     query: () => fetchParticipantPage(toValue(studyId), toValue(filter)),
-    enabled: () => Boolean(toValue(studyId)),
+    enabled: () => Boolean(toValue(studyId)) && toValue(enabled),
     // Keep the previous page on screen while the next one loads.
     placeholderData: (previous: ParticipantPage | undefined) => previous,
   })

@@ -86,6 +86,42 @@ export const routes: RouteRecordRaw[] = [
     meta: { permission: 'consentForms.read', title: 'Consent forms' },
   },
   {
+    path: '/studies/:studyId/interviews',
+    name: 'study-interviews',
+    component: () => import('@/views/interviews/InterviewsView.vue'),
+    meta: { permission: 'interviews.read', title: 'Interviews' },
+  },
+  {
+    path: '/studies/:studyId/interview-guides',
+    name: 'study-interview-guides',
+    component: () => import('@/views/interviews/InterviewGuidesView.vue'),
+    meta: { permission: 'interviews.read', title: 'Interview guides' },
+  },
+  {
+    path: '/studies/:studyId/transcripts',
+    name: 'study-transcripts',
+    component: () => import('@/views/transcripts/TranscriptsView.vue'),
+    meta: { permission: 'transcripts.read', title: 'Transcripts' },
+  },
+  {
+    path: '/studies/:studyId/transcripts/:transcriptId',
+    name: 'study-transcript',
+    component: () => import('@/views/transcripts/TranscriptReadingView.vue'),
+    meta: { permission: 'transcripts.read', title: 'Transcript' },
+  },
+  {
+    path: '/studies/:studyId/transcripts/:transcriptId/review',
+    name: 'study-transcript-review',
+    component: () => import('@/views/transcripts/TranscriptReviewView.vue'),
+    meta: { permission: 'transcripts.upload', title: 'De-identify a transcript' },
+  },
+  {
+    path: '/studies/:studyId/anonymisation-log',
+    name: 'study-anonymisation-log',
+    component: () => import('@/views/transcripts/AnonymisationLogView.vue'),
+    meta: { permission: 'anonymisationLog.read', title: 'Anonymisation log' },
+  },
+  {
     path: '/studies/:studyId/screening-form',
     name: 'study-screening-form',
     component: () => import('@/views/recruitment/ScreeningFormView.vue'),

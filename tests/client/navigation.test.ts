@@ -61,14 +61,16 @@ describe('recruitment sections in the navigation', () => {
     expect(nav.find('a[href="/studies/study-1/recruitment"]').exists()).toBe(true)
   })
 
-  it('lists Recruitment, Participants, the consent sections and Screening questions right after Overview for the lead researcher', async () => {
+  it('lists Recruitment, Participants, the consent sections, Interviews, Transcripts and Screening questions right after Overview for the lead researcher', async () => {
     const { titles } = await linksFor('lead')
-    expect(titles.slice(titles.indexOf('Overview'), titles.indexOf('Overview') + 6)).toEqual([
+    expect(titles.slice(titles.indexOf('Overview'), titles.indexOf('Overview') + 8)).toEqual([
       'Overview',
       'Recruitment',
       'Participants',
       'Consent',
       'Consent forms',
+      'Interviews',
+      'Transcripts',
       'Screening questions',
     ])
   })
@@ -93,5 +95,28 @@ describe('consent sections in the navigation', () => {
       expect(titles).not.toContain('Consent')
       expect(titles).not.toContain('Consent forms')
     }
+  })
+})
+
+describe('interview and transcript sections in the navigation', () => {
+  afterEach(() => {
+    document.body.innerHTML = ''
+  })
+
+  it('shows Transcripts to a coder, linking to the transcripts page, but not Interviews', async () => {
+    const { nav, titles } = await linksFor('coder')
+    expect(titles).toContain('Transcripts')
+    expect(titles).not.toContain('Interviews')
+    expect(nav.find('a[href="/studies/study-1/transcripts"]').exists()).toBe(true)
+    expect(nav.find('a[href="/studies/study-1/interviews"]').exists()).toBe(false)
+  })
+
+  it('shows both Interviews and Transcripts to a coordinator and neither to a patient partner', async () => {
+    const coordinator = await linksFor('coordinator')
+    expect(coordinator.titles).toEqual(expect.arrayContaining(['Interviews', 'Transcripts']))
+    expect(coordinator.nav.find('a[href="/studies/study-1/interviews"]').exists()).toBe(true)
+    const partner = await linksFor('partner')
+    expect(partner.titles).not.toContain('Interviews')
+    expect(partner.titles).not.toContain('Transcripts')
   })
 })
