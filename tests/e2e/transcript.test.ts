@@ -53,7 +53,7 @@ describe('transcript de-identification', () => {
     await page.getByRole('button', { name: 'Approve' }).and(page.locator(':not([disabled])')).waitFor()
     await page.getByRole('button', { name: 'Approve' }).click()
     await page.waitForURL(/\/transcripts\/[0-9a-f-]+$/)
-
+    await page.waitForLoadState('networkidle')
     await page.close()
     const coderPage = await e2e.newPage()
     await signIn(coderPage, e2e.baseUrl, 'coder1@heardwell.test', DEMO_PASSWORD)

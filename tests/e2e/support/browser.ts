@@ -71,6 +71,16 @@ export async function seriousA11yViolations(page: Page): Promise<string[]> {
 
 export async function signIn(page: Page, baseUrl: string, email: string, password: string): Promise<void> {
   await page.goto(`${baseUrl}/sign-in`)
+  // a response from an earlier page may have renewed a session cookie after cookies were cleared:
+  // if the app still thinks someone is signed in, sign them out first, as a person would
+  const ready = await page.getByLabel('E-mail address').waitFor({ timeout: 5000 }).then(() => true, () => false)
+  if (!ready) {
+    await page.evaluate(async () => {
+      const { token } = await (await fetch('/api/auth/csrf')).json()
+      await fetch('/api/auth/logout', { method: 'POST', headers: { 'X-CSRF-Token': token } })
+    })
+    await page.goto(`${baseUrl}/sign-in`)
+  }
   await page.getByLabel('E-mail address').fill(email)
   await page.getByLabel('Password', { exact: true }).fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
