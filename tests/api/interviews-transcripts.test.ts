@@ -1,5 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { AuditService } from '../../server/modules/audit/audit.service.js'
+import { InterviewService } from '../../server/modules/interviews/interview.service.js'
+import { MailService } from '../../server/modules/mail/mail.service.js'
+import { createLogger } from '../../server/lib/logger.js'
 import { purgeWithdrawnData } from '../../server/modules/transcripts/withdrawn-data-purge.js'
 import { makeTeam, TEST_PASSWORD, uniqueEmail } from '../support/factories.js'
 import { buildDocx } from '../fixtures/transcripts/docx.js'
@@ -61,6 +64,16 @@ describe('interviews', () => {
     const moved = await coordinator.patch(`${base()}/interviews/${res.body.id}`, { localTime: '2027-04-03T17:00', timeZoneOf: 'interviewer' })
     expect(moved.body.scheduledAt).toBe('2027-04-03T16:00:00.000Z') // London on BST (UTC+1) by then
     await waitForMail(email, /Your interview has changed/)
+    // a reminder job waits for 24 hours before the new time; a stale one (older sequence) sends nothing
+    const jobs = await ctx.dataSource.query(`SELECT data, start_after FROM pgboss.job WHERE name = 'interview-reminder' AND data->>'interviewId' = $1 ORDER BY created_on`, [res.body.id])
+    expect(jobs).toHaveLength(2)
+    expect(new Date(jobs[1].start_after).toISOString()).toBe('2027-04-02T16:00:00.000Z')
+    const interviews = new InterviewService(ctx.dataSource, ctx.boss, new AuditService(ctx.dataSource), new MailService(ctx.dataSource, ctx.boss, ctx.config.MAIL_FROM, createLogger('silent')), null as never)
+    await interviews.sendReminder(res.body.id, jobs[0].data.sequence)
+    await interviews.sendReminder(res.body.id, jobs[1].data.sequence)
+    await waitForMail(email, /Reminder: your interview is tomorrow/)
+    const reminders = (await import('../support/mailbox.js')).mailsTo(email).filter((m) => /Reminder/.test(m.subject))
+    expect(reminders).toHaveLength(1)
     const gap = await coordinator.patch(`${base()}/interviews/${res.body.id}`, { localTime: '2027-03-14T02:30', timeZoneOf: 'participant' })
     expect(gap.status).toBe(400)
     const cancelled = await coordinator.post(`${base()}/interviews/${res.body.id}/outcome`, { status: 'cancelled' })
