@@ -153,3 +153,11 @@ export const anonymisationLogEntry = z.object({
   at: z.string(),
 })
 export const anonymisationLog = z.object({ entries: z.array(anonymisationLogEntry) })
+
+/** The team's own list of terms the scan always flags, e.g. the local hospital or a small town. */
+export const deidentificationTerms = z.strictObject({
+  terms: z
+    .array(z.strictObject({ term: z.string().trim().min(2, 'A term needs at least 2 characters.').max(200), category: z.string().max(30) }))
+    .max(500),
+})
+export type DeidentificationTerms = z.infer<typeof deidentificationTerms>

@@ -1,6 +1,8 @@
 import { useMutation, useQuery, useQueryCache } from '@pinia/colada'
 import { toValue, type MaybeRefOrGetter } from 'vue'
 import {
+  deidentificationTerms,
+  type DeidentificationTerms,
   anonymisationLog,
   transcriptListResponse,
   transcriptReading,
@@ -99,4 +101,22 @@ export function useApproveMutation(studyId: MaybeRefOrGetter<string>) {
 export function useRejectMutation(studyId: MaybeRefOrGetter<string>) {
   const invalidate = useInvalidateTranscripts(studyId)
   return useMutation({ mutation: (transcriptId: string) => rejectTranscript(toValue(studyId), transcriptId), onSettled: invalidate })
+}
+
+/** The team's own list of terms the de-identification scan always flags (lead and coordinators). */
+const termsKey = (studyId: string) => ['studies', studyId, 'deidentification-terms'] as const
+
+export function useDeidentificationTermsQuery(studyId: MaybeRefOrGetter<string>) {
+  return useQuery({
+    key: () => termsKey(toValue(studyId)),
+    query: () => http.get(`${base(toValue(studyId))}/deidentification-terms`, deidentificationTerms),
+  })
+}
+
+export function useDeidentificationTermsMutation(studyId: MaybeRefOrGetter<string>) {
+  const queryCache = useQueryCache()
+  return useMutation({
+    mutation: (body: DeidentificationTerms) => http.put(`${base(toValue(studyId))}/deidentification-terms`, body, deidentificationTerms),
+    onSettled: () => queryCache.invalidateQueries({ key: termsKey(toValue(studyId)) }),
+  })
 }

@@ -144,6 +144,18 @@ describe('transcripts', () => {
     expect((await coder.get(`${base()}/anonymisation-log`)).status).toBe(403)
   })
 
+  it('flags the team’s own list of terms in every new upload; coders cannot read the list', async () => {
+    const saved = await coordinator.put(`${base()}/deidentification-terms`, { terms: [{ term: 'Harrowgate Mill', category: 'location' }] })
+    expect(saved.status).toBe(200)
+    expect((await coder.get(`${base()}/deidentification-terms`)).status).toBe(403)
+    expect((await coordinator.put(`${base()}/deidentification-terms`, { terms: [{ term: 'x', category: 'location' }] })).status).toBe(400)
+    const pid = await consentedParticipant(coordinator, lead, team.study.id, 'Terry Terms', uniqueEmail('terms'))
+    const interview = await doneInterview(coordinator, team.study.id, pid, team.users.coordinator.id)
+    const up = await uploadTranscript(coordinator, team.study.id, interview.id, Buffer.from('Interviewer: Where was rehab?\nP: out at harrowgate mill, every morning.'))
+    const review = (await coordinator.get(`${base()}/transcripts/${up.body.id}/deidentification`)).body
+    expect(review.flags).toEqual(expect.arrayContaining([expect.objectContaining({ text: 'harrowgate mill', category: 'location' })]))
+  })
+
   it('keeps placeholders consistent across the study: the same person gets the same placeholder', async () => {
     const pid = await consentedParticipant(coordinator, lead, team.study.id, 'Otto Second', uniqueEmail('otto'))
     const interview = await doneInterview(coordinator, team.study.id, pid, team.users.coordinator.id)

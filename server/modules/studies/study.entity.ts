@@ -62,4 +62,8 @@ export class Study extends BaseEntity {
   /** days after a withdrawal of data before the participant's transcript files are deleted from the store */
   @Column({ type: 'integer', name: 'data_removal_grace_days', default: 30 })
   dataRemovalGraceDays: number
+
+  /** the team's own list of terms the de-identification scan always flags (local place names, a clinic…) */
+  @Column({ type: 'jsonb', name: 'deidentification_terms', default: [] })
+  deidentificationTerms: { term: string; category: string }[]
 }

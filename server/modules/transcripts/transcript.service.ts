@@ -2,7 +2,7 @@ import { randomUUID } from 'node:crypto'
 import type { DataSource } from 'typeorm'
 import type { StudyRole } from '../../../shared/permissions.js'
 import { applyRedactions, PlaceholderRegistry, scanForIdentifiers, type IdentifierCategory } from '../../../shared/deidentify/index.js'
-import type { Flag, FlagDecisions, TranscriptReading, TranscriptReview, TranscriptSummary } from '../../../shared/schemas/interviews.js'
+import type { DeidentificationTerms, Flag, FlagDecisions, TranscriptReading, TranscriptReview, TranscriptSummary } from '../../../shared/schemas/interviews.js'
 import { AppError, ConflictError, NotFoundError, UnavailableError, ValidationError } from '../../lib/errors.js'
 import type { ObjectStore } from '../../storage/object-store.js'
 import type { AuditActor, AuditService } from '../audit/audit.service.js'
@@ -16,7 +16,7 @@ import { AnonymisationLogEntry } from './anonymisation-log.entity.js'
 import { remapOffset } from './offsets.js'
 import { deidentifySpeaker } from './speaker-labels.js'
 import { parseTranscript, TranscriptParseError, type ParsedTranscript } from './parsing/index.js'
-import { acceptedSpans, applyDecisions } from './transcript-flags.js'
+import { acceptedSpans, applyDecisions, asCategory } from './transcript-flags.js'
 import { TranscriptTurn } from './transcript-turn.entity.js'
 import { Transcript } from './transcript.entity.js'
 
@@ -91,6 +91,7 @@ export class TranscriptService {
     const studyTerms = [
       ...(contact?.name ? [contact.name, ...contact.name.split(/\s+/).filter((part) => part.length > 2)].map((term) => ({ term, category: 'name' as const })) : []),
       ...Object.entries(study.placeholderRegistry).map(([term, v]) => ({ term, category: v.category as IdentifierCategory })),
+      ...study.deidentificationTerms.map((t) => ({ term: t.term, category: t.category as IdentifierCategory })),
     ]
     const flags: Flag[] = scanForIdentifiers(parsed.text, { studyTerms }).map((f) => ({ id: randomUUID(), ...f, source: 'scanner' as const, decision: 'pending' as const }))
     const id = randomUUID()
@@ -224,6 +225,22 @@ export class TranscriptService {
     const text = (await this.storage.get(row.objectKey!, row.sha256!)).toString('utf8')
     const turns = await this.dataSource.getRepository(TranscriptTurn).find({ where: { transcriptId }, order: { position: 'ASC' } })
     return { ...summary!, text, sha256: row.sha256!, turns: turns.map((t) => ({ speaker: t.speaker, startMs: t.startMs, start: t.start, end: t.end })) }
+  }
+
+  async terms(studyId: string): Promise<DeidentificationTerms> {
+    const study = await this.dataSource.getRepository(Study).findOneBy({ id: studyId })
+    if (!study) throw new NotFoundError('study')
+    return { terms: study.deidentificationTerms }
+  }
+
+  async setTerms(studyId: string, input: DeidentificationTerms, actor: AuditActor): Promise<DeidentificationTerms> {
+    const terms = input.terms.map((t) => ({ term: t.term.normalize('NFC'), category: asCategory(t.category) }))
+    await this.dataSource.transaction(async (manager) => {
+      await manager.update(Study, { id: studyId }, { deidentificationTerms: terms as never })
+      // the terms themselves may identify people or places: the trail records only how many there are
+      await this.audit.record(actor, { action: 'deidentification.terms_changed', studyId, targetType: 'study', targetId: studyId, details: { count: terms.length } }, manager)
+    })
+    return { terms }
   }
 
   async anonymisationLog(studyId: string) {

@@ -1,7 +1,7 @@
 import { Router } from 'express'
 import { z } from 'zod'
 import { idParams } from '../../../shared/schemas/common.js'
-import { flagDecisions } from '../../../shared/schemas/interviews.js'
+import { deidentificationTerms, flagDecisions } from '../../../shared/schemas/interviews.js'
 import type { Authorize } from '../../middleware/authorize.js'
 import { singleFileUpload } from '../../middleware/upload.js'
 import { validate } from '../../middleware/validate.js'
@@ -38,6 +38,12 @@ export function transcriptsRouter({ authorize, transcripts }: { authorize: Autho
   })
   router.post(`${one}/reject`, authorize('study:transcripts.approve'), validate({ params: transcriptParams }), async (req, res) => {
     res.json(await transcripts.reject(req.valid.params.studyId, req.valid.params.transcriptId, actorOf(req)))
+  })
+  router.get('/studies/:studyId/deidentification-terms', authorize('study:anonymisationLog.read'), validate({ params: idParams }), async (req, res) => {
+    res.json(await transcripts.terms(req.valid.params.studyId))
+  })
+  router.put('/studies/:studyId/deidentification-terms', authorize('study:transcripts.upload'), validate({ params: idParams, body: deidentificationTerms }), async (req, res) => {
+    res.json(await transcripts.setTerms(req.valid.params.studyId, req.valid.body, actorOf(req)))
   })
   router.get('/studies/:studyId/anonymisation-log', authorize('study:anonymisationLog.read'), validate({ params: idParams }), async (req, res) => {
     res.json({ entries: await transcripts.anonymisationLog(req.valid.params.studyId) })
