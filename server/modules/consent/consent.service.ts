@@ -10,7 +10,7 @@ import type { ObjectStore } from '../../storage/object-store.js'
 import type { AuditActor, AuditService } from '../audit/audit.service.js'
 import type { MailService } from '../mail/mail.service.js'
 import { ParticipantContact } from '../recruitment/participant-contact.entity.js'
-import { ParticipantEvent } from '../recruitment/participant-event.entity.js'
+import { addTimelineEvent } from '../recruitment/participant-timeline.js'
 import { Participant } from '../recruitment/participant.entity.js'
 import { Study } from '../studies/study.entity.js'
 import { User } from '../users/user.entity.js'
@@ -93,12 +93,6 @@ export class ConsentService {
     return p
   }
 
-  private async event(manager: EntityManager, p: Participant, kind: 'email' | 'note' | 'override' | 'screening' | 'enquiry', summary: string, actor: AuditActor | null) {
-    const name = actor?.id ? ((await manager.findOneBy(User, { id: actor.id }))?.name ?? null) : null
-    await manager.insert(ParticipantEvent, { studyId: p.studyId, participantId: p.id, kind, summary: summary.slice(0, 300), actorId: actor?.id ?? null, actorName: name, details: {} })
-    await manager.update(Participant, { id: p.id }, { lastActivityAt: () => 'now()' })
-  }
-
   /** Written (with the signed scan) or verbal consent recorded by the lead or a coordinator. */
   async recordByStaff(studyId: string, participantId: string, input: StaffConsentInput, signed: SignedFile | null, actor: AuditActor) {
     const id = randomUUID()
@@ -139,7 +133,7 @@ export class ConsentService {
           note: input.note,
         })
         await manager.update(Participant, { id: p.id }, { status: 'consented' })
-        await this.event(manager, p, 'note', `${corrected ? 'Consent corrected' : `${method === 'written' ? 'Written' : 'Verbal'} consent recorded`} on version ${form.label}`, actor)
+        await addTimelineEvent(manager, p, 'note', `${corrected ? 'Consent corrected' : `${method === 'written' ? 'Written' : 'Verbal'} consent recorded`} on version ${form.label}`, actor)
         await this.audit.record(actor, { action: corrected ? 'consent.corrected' : 'consent.recorded', studyId, targetType: 'participant', targetId: p.id, details: { method, version: form.label, consentId: id, corrects: input.corrects ?? null } }, manager)
       })
     } catch (error) {
@@ -168,7 +162,7 @@ export class ConsentService {
           `Hello ${contact.name},\n\nThank you for your interest in the study "${study.title}". Please read the consent form and, if you agree to take part, sign it here (the link works once, for ${LINK_DAYS} days):\n\n` +
           `${this.publicUrl}/consent/${token}\n\nTaking part is your choice. If you have questions, reply to the study team before you sign.\n\nThis is a research study. It does not give medical advice or care.\n`,
       })
-      await this.event(manager, p, 'email', `E-consent link sent for version ${form.label}`, actor)
+      await addTimelineEvent(manager, p, 'email', `E-consent link sent for version ${form.label}`, actor)
       await this.audit.record(actor, { action: 'consent.link_sent', studyId, targetType: 'participant', targetId: p.id, details: { version: form.label } }, manager)
     })
     return this.view(studyId, participantId)
@@ -240,7 +234,7 @@ export class ConsentService {
         })
         await manager.update(ConsentLink, { id: link.id }, { usedAt: signedAt })
         await manager.update(Participant, { id: p.id }, { status: 'consented' })
-        await this.event(manager, p, 'note', `Signed the consent form (version ${form.label}) electronically`, null)
+        await addTimelineEvent(manager, p, 'note', `Signed the consent form (version ${form.label}) electronically`, null)
         if (contact?.email) {
           await this.mail.enqueue(manager, {
             to: contact.email,
@@ -251,7 +245,7 @@ export class ConsentService {
               `This is a research study. It does not give medical advice or care.\n`,
             attachments: [{ filename: 'consent-receipt.pdf', contentType: 'application/pdf', storageKey: receiptKey }],
           })
-          await this.event(manager, p, 'email', 'Consent receipt e-mailed', null)
+          await addTimelineEvent(manager, p, 'email', 'Consent receipt e-mailed', null)
         }
         await this.audit.record({ id: null, email: null, ip: null }, { action: 'consent.signed_electronically', studyId: study.id, targetType: 'participant', targetId: p.id, details: { version: form.label, consentId: id, documentSha256: form.documentSha256 } }, manager)
         return { signedAt: signedAt.toISOString(), signerName: input.signerName, meaning, formLabel: form.label, studyTitle: study.title }

@@ -1,4 +1,4 @@
-import type { DataSource, EntityManager } from 'typeorm'
+import type { DataSource } from 'typeorm'
 import { IsNull } from 'typeorm'
 import { describeWithdrawalRule, withinWithdrawalDeadline } from '../../../shared/consent/index.js'
 import type { PublicWithdrawalPage, PublicWithdrawalSubmit, WithdrawalInput, WithdrawalRequest as WithdrawalRequestDto } from '../../../shared/schemas/consent.js'
@@ -7,7 +7,7 @@ import { hashToken } from '../../lib/tokens.js'
 import type { AuditActor, AuditService } from '../audit/audit.service.js'
 import type { MailService } from '../mail/mail.service.js'
 import { ParticipantContact } from '../recruitment/participant-contact.entity.js'
-import { ParticipantEvent } from '../recruitment/participant-event.entity.js'
+import { addTimelineEvent } from '../recruitment/participant-timeline.js'
 import { Participant } from '../recruitment/participant.entity.js'
 import { Study } from '../studies/study.entity.js'
 import { User } from '../users/user.entity.js'
@@ -61,7 +61,7 @@ export class WithdrawalService {
       await manager.update(Participant, { id: participantId }, { status: 'withdrawn', lastActivityAt: () => 'now()' })
       await manager.update(ConsentLink, { participantId, usedAt: IsNull(), revokedAt: IsNull() }, { revokedAt: new Date() })
       if (input.requestId) await manager.update(WithdrawalRequest, { id: input.requestId, participantId }, { status: 'recorded' })
-      await this.event(manager, p, `Withdrew: ${SCOPE_WORDS[input.scope]}${dataRemoved ? '; data removed from analysis' : ''}`, actor.id, by)
+      await addTimelineEvent(manager, p, 'note', `Withdrew: ${SCOPE_WORDS[input.scope]}${dataRemoved ? '; data removed from analysis' : ''}`, actor)
       await this.audit.record(
         actor,
         { action: 'participant.withdrawn', studyId, targetType: 'participant', targetId: participantId, details: { scope: input.scope, withinDeadline, dataRemoved, excludedFromAnalysis: dataRemoved } },
@@ -79,10 +79,6 @@ export class WithdrawalService {
         })
       }
     })
-  }
-
-  private async event(manager: EntityManager, p: Participant, summary: string, actorId: string | null, actorName: string | null) {
-    await manager.insert(ParticipantEvent, { studyId: p.studyId, participantId: p.id, kind: 'note', summary: summary.slice(0, 300), actorId, actorName, details: {} })
   }
 
   private async recordFor(token: string) {
@@ -109,7 +105,7 @@ export class WithdrawalService {
       if (await manager.existsBy(WithdrawalRequest, { participantId: p.id, status: 'open' })) return
       if (await manager.existsBy(Withdrawal, { participantId: p.id })) return
       const saved = await manager.save(manager.create(WithdrawalRequest, { studyId: p.studyId, participantId: p.id, scope: input.scope, reason: input.reason }))
-      await this.event(manager, p, `Asked to ${SCOPE_WORDS[input.scope].replace('their', 'their own')} (through the receipt link)`, null, null)
+      await addTimelineEvent(manager, p, 'note', `Asked to ${SCOPE_WORDS[input.scope].replace('their', 'their own')} (through the receipt link)`, null)
       await this.audit.record({ id: null, email: null, ip: null }, { action: 'participant.withdrawal_requested', studyId: p.studyId, targetType: 'participant', targetId: p.id, details: { scope: input.scope, requestId: saved.id } }, manager)
       const contact = await manager.findOneBy(ParticipantContact, { participantId: p.id })
       const study = await manager.findOneByOrFail(Study, { id: p.studyId })

@@ -7,7 +7,7 @@ import type { AuditActor, AuditService } from '../audit/audit.service.js'
 import type { ConsentService } from '../consent/consent.service.js'
 import type { MailService } from '../mail/mail.service.js'
 import { ParticipantContact } from '../recruitment/participant-contact.entity.js'
-import { ParticipantEvent } from '../recruitment/participant-event.entity.js'
+import { addTimelineEvent } from '../recruitment/participant-timeline.js'
 import { Participant } from '../recruitment/participant.entity.js'
 import { Membership } from '../studies/membership.entity.js'
 import { Study } from '../studies/study.entity.js'
@@ -117,7 +117,7 @@ export class InterviewService {
       )
       await this.notify(manager, interview, 'confirmation')
       await this.scheduleReminder(manager, interview)
-      await this.event(manager, p, `Interview booked for ${interview.scheduledAt.toISOString().slice(0, 16).replace('T', ' ')} UTC${use.notesOnly ? ' (notes only: audio recording declined)' : ''}`, actor)
+      await addTimelineEvent(manager, p, 'note', `Interview booked for ${interview.scheduledAt.toISOString().slice(0, 16).replace('T', ' ')} UTC${use.notesOnly ? ' (notes only: audio recording declined)' : ''}`, actor)
       await this.audit.record(actor, { action: 'interview.scheduled', studyId, targetType: 'interview', targetId: interview.id, details: { participant: p.pseudonym, at: interview.scheduledAt.toISOString() } }, manager)
       return interview.id
     })
@@ -203,10 +203,5 @@ export class InterviewService {
       if (!interview || interview.status !== 'scheduled' || interview.calendarSequence !== sequence) return
       await this.notify(manager, interview, 'reminder')
     })
-  }
-
-  private async event(manager: EntityManager, p: Participant, summary: string, actor: AuditActor) {
-    const name = actor.id ? ((await manager.findOneBy(User, { id: actor.id }))?.name ?? null) : null
-    await manager.insert(ParticipantEvent, { studyId: p.studyId, participantId: p.id, kind: 'note', summary: summary.slice(0, 300), actorId: actor.id, actorName: name, details: {} })
   }
 }

@@ -10,7 +10,8 @@ import type { MailService } from '../mail/mail.service.js'
 import { Study } from '../studies/study.entity.js'
 import { User } from '../users/user.entity.js'
 import { ParticipantContact } from './participant-contact.entity.js'
-import { ParticipantEvent, type ParticipantEventKind } from './participant-event.entity.js'
+import { ParticipantEvent } from './participant-event.entity.js'
+import { addTimelineEvent } from './participant-timeline.js'
 import { pseudonymFor, screeningSummary, statusFor, toDetail, toRow } from './participant-views.js'
 import { Participant } from './participant.entity.js'
 import type { QuestionnaireService } from './questionnaire.service.js'
@@ -69,15 +70,15 @@ export class ParticipantService {
       )
       await manager.insert(ParticipantContact, { participantId: participant.id, ...input.contact, consentToContact: input.consentToContact })
       const via = input.source === 'public_page' ? 'on the public study page' : `by ${actor.email ?? 'the team'} (${input.source.replace(/_/g, ' ')})`
-      await this.event(manager, participant, 'enquiry', `Enquired ${via}`, actor, { source: input.source })
-      if (input.note) await this.event(manager, participant, 'note', input.note.slice(0, 300), actor, {})
+      await addTimelineEvent(manager, participant, 'enquiry', `Enquired ${via}`, actor, { source: input.source })
+      if (input.note) await addTimelineEvent(manager, participant, 'note', input.note.slice(0, 300), actor, {})
       if (questionnaire && result) {
         await manager.insert(Screening, { participantId: participant.id, questionnaireId: questionnaire.id, answers: input.answers!, result, screenedById: actor.id })
-        await this.event(manager, participant, 'screening', screeningSummary(result, questionnaire.version), actor, { outcome: result.outcome })
+        await addTimelineEvent(manager, participant, 'screening', screeningSummary(result, questionnaire.version), actor, { outcome: result.outcome })
       }
       if (input.contact.email && input.source === 'public_page') {
         await this.mail.enqueue(manager, acknowledgementMail(study, input.contact, result))
-        await this.event(manager, participant, 'email', 'Acknowledgement e-mail queued', null, {})
+        await addTimelineEvent(manager, participant, 'email', 'Acknowledgement e-mail queued', null, {})
       }
       await this.audit.record(
         actor,
@@ -109,12 +110,6 @@ export class ParticipantService {
     const problems = answerProblems(questionnaire.questions, answers, today(), { requireAll: strict })
     if (problems.length) throw new ValidationError('Some answers need attention.', problems)
     return evaluateEligibility(questionnaire, answers, today())
-  }
-
-  private async event(manager: EntityManager, p: Participant, kind: ParticipantEventKind, summary: string, actor: AuditActor | null, details: Record<string, unknown>) {
-    const name = actor?.id ? ((await manager.findOneBy(User, { id: actor.id }))?.name ?? null) : null
-    await manager.insert(ParticipantEvent, { studyId: p.studyId, participantId: p.id, kind, summary: summary.slice(0, 300), actorId: actor?.id ?? null, actorName: name, details: details as never })
-    await manager.update(Participant, { id: p.id }, { lastActivityAt: () => 'now()' })
   }
 
   async list(studyId: string, query: z.output<typeof participantListQuery>, role: StudyRole | null): Promise<ParticipantPage> {
@@ -168,8 +163,8 @@ export class ParticipantService {
         characteristics: characteristicsFrom(questionnaire, answers),
         override: null,
       })
-      await this.event(manager, p, 'screening', screeningSummary(result, questionnaire.version), actor, { outcome: result.outcome })
-      if (note) await this.event(manager, p, 'note', note, actor, {})
+      await addTimelineEvent(manager, p, 'screening', screeningSummary(result, questionnaire.version), actor, { outcome: result.outcome })
+      if (note) await addTimelineEvent(manager, p, 'note', note, actor, {})
       await this.audit.record(actor, { action: 'participant.screened', studyId, targetType: 'participant', targetId: participantId, details: { version: questionnaire.version, outcome: result.outcome } }, manager)
     })
     return this.detail(studyId, participantId)
@@ -184,7 +179,7 @@ export class ParticipantService {
       const by = actor.id ? ((await manager.findOneBy(User, { id: actor.id }))?.name ?? actor.email ?? 'the lead') : 'the lead'
       const override = { outcome: input.outcome, reason: input.reason, by, at: new Date().toISOString() }
       await manager.update(Participant, { id: participantId }, { status: input.outcome, override: override as never })
-      await this.event(manager, p, 'override', `Outcome changed to ${input.outcome.replace('_', ' ')}: ${input.reason}`, actor, { from: p.status, to: input.outcome })
+      await addTimelineEvent(manager, p, 'override', `Outcome changed to ${input.outcome.replace('_', ' ')}: ${input.reason}`, actor, { from: p.status, to: input.outcome })
       await this.audit.record(actor, { action: 'participant.outcome_overridden', studyId, targetType: 'participant', targetId: participantId, details: { from: p.status, to: input.outcome, reason: input.reason } }, manager)
     })
     return this.detail(studyId, participantId)
