@@ -1,5 +1,4 @@
 import type { DataSource } from 'typeorm'
-import { IsNull, MoreThan } from 'typeorm'
 import type { MeResponse, PasswordChangeRequest, PasswordResetConfirm } from '../../../shared/schemas/auth.js'
 import { ForbiddenError, GoneError, UnauthenticatedError } from '../../lib/errors.js'
 import { hashToken, newToken } from '../../lib/tokens.js'
@@ -125,9 +124,5 @@ export class AuthService {
       })
     })
     if (input.signOutOtherSessions) await this.sessions.revokeAll(userId, sid)
-  }
-
-  async openResetTokens(userId: string): Promise<number> {
-    return this.dataSource.getRepository(PasswordResetToken).countBy({ userId, usedAt: IsNull(), expiresAt: MoreThan(new Date()) })
   }
 }

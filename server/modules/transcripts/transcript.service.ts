@@ -59,9 +59,8 @@ export class TranscriptService {
 
   /** What may be coded: only participants whose consent allows it (the one data-use policy). */
   private async codable(studyId: string, participantIds: string[]): Promise<Set<string>> {
-    const allowed = new Set<string>()
-    for (const id of new Set(participantIds)) if ((await this.consent.view(studyId, id)).dataUse.mayCode) allowed.add(id)
-    return allowed
+    const uses = await this.consent.dataUseFor(studyId, participantIds)
+    return new Set([...uses].filter(([, use]) => use.mayCode).map(([id]) => id))
   }
 
   /** Lead and coordinators see every version in any state; coders only approved ones they may code. */
