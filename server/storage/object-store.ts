@@ -76,6 +76,20 @@ export class ObjectStore {
   }
 
   /** Reads an object and refuses it when its content no longer matches the recorded SHA-256. */
+  /**
+   * Stores a file, then runs `save` (the database rows that refer to it). If `save` fails the file is
+   * deleted again, so a failed request leaves no orphan object.
+   */
+  async putThen<T>(key: string, body: Buffer, contentType: string, save: (stored: StoredObject) => Promise<T>): Promise<T> {
+    const stored = await this.put(key, body, contentType)
+    try {
+      return await save(stored)
+    } catch (error) {
+      await this.delete(key).catch(() => {})
+      throw error
+    }
+  }
+
   async get(key: string, expectedSha256?: string): Promise<Buffer> {
     const result = await this.client.send(new GetObjectCommand({ Bucket: this.bucket, Key: key }))
     const body = Buffer.from(await result.Body!.transformToByteArray())

@@ -6,6 +6,7 @@ import { createLogger } from '../../server/lib/logger.js'
 import { purgeWithdrawnData } from '../../server/modules/transcripts/withdrawn-data-purge.js'
 import { makeTeam, TEST_PASSWORD, uniqueEmail } from '../support/factories.js'
 import { buildDocx } from '../fixtures/transcripts/docx.js'
+import { makePdf } from '../support/consent.js'
 import { consentedParticipant, doneInterview, uploadTranscript } from '../support/interviews.js'
 import { waitForMail } from '../support/mailbox.js'
 import { openRecruitment } from '../support/recruitment.js'
@@ -39,6 +40,28 @@ const TRANSCRIPT = [
   '[0:01:15] Margery Quillfeather: I rang the ward on (604) 555-0142 and emailed margery.q@example.org but Dr Okonkwo-Reyes never replied.',
   '[0:02:40] Interviewer: That sounds hard.',
 ].join('\n')
+
+describe('interview guides', () => {
+  it('the lead adds a guide version (checked by content); coordinators list and download it', async () => {
+    const add = (client: Client, buffer: Buffer) =>
+      client.agent
+        .post(`${base()}/interview-guides`)
+        .set('X-CSRF-Token', client.csrf)
+        .field('metadata', JSON.stringify({ label: 'Guide v1', approvalDate: '2026-02-02', text: 'Tell me about the day your relative came home.' }))
+        .attach('file', buffer, 'guide.pdf')
+    expect((await add(lead, Buffer.from('not a pdf at all'))).status).toBe(415)
+    expect((await add(coordinator, await makePdf('guide'))).status).toBe(403)
+    const created = await add(lead, await makePdf('guide'))
+    expect(created.status).toBe(201)
+    expect(created.body.file.sha256).toMatch(/^[0-9a-f]{64}$/)
+    const list = (await coordinator.get(`${base()}/interview-guides`)).body.guides
+    expect(list.map((g: { label: string }) => g.label)).toEqual(['Guide v1'])
+    const file = await coordinator.get(`${base()}/interview-guides/${created.body.id}/file`)
+    expect(file.status).toBe(200)
+    expect(file.headers['content-disposition']).toMatch(/^attachment;/)
+    expect((await coder.get(`${base()}/interview-guides`)).status).toBe(403)
+  })
+})
 
 describe('interviews', () => {
   it('books an interview in the participant’s zone, shows both clocks across a DST change, and e-mails a calendar file', async () => {

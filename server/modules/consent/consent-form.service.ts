@@ -69,9 +69,8 @@ export class ConsentFormService {
     if (problems.length) throw new ValidationError(problems[0]!.message, problems)
     const id = randomUUID()
     const key = `studies/${studyId}/consent-forms/${id}`
-    const stored = await this.storage.put(key, file.buffer, file.contentType)
-    try {
-      const form = await this.dataSource.transaction(async (manager) => {
+    const form = await this.storage.putThen(key, file.buffer, file.contentType, (stored) =>
+      this.dataSource.transaction(async (manager) => {
         const saved = await manager.save(
           manager.create(ConsentForm, {
             id,
@@ -93,12 +92,9 @@ export class ConsentFormService {
         )
         await this.audit.record(actor, { action: 'consent_form.added', studyId, targetType: 'consent_form', targetId: id, details: { label: input.label, sha256: stored.sha256 } }, manager)
         return saved
-      })
-      return this.toDto(form)
-    } catch (error) {
-      await this.storage.delete(key).catch(() => {})
-      throw error
-    }
+      }),
+    )
+    return this.toDto(form)
   }
 
   /** Drafts can change; approved and superseded versions only take checklist ticks. */

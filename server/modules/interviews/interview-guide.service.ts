@@ -25,20 +25,16 @@ export class InterviewGuideService {
   async create(studyId: string, input: InterviewGuideCreate, file: { buffer: Buffer; name: string; contentType: string }, actor: AuditActor): Promise<InterviewGuideDto> {
     const id = randomUUID()
     const key = `studies/${studyId}/interview-guides/${id}`
-    const stored = await this.storage.put(key, file.buffer, file.contentType)
-    try {
-      const guide = await this.dataSource.transaction(async (manager) => {
+    const guide = await this.storage.putThen(key, file.buffer, file.contentType, (stored) =>
+      this.dataSource.transaction(async (manager) => {
         const saved = await manager.save(
           manager.create(InterviewGuide, { id, studyId, ...input, fileKey: key, fileName: file.name, fileContentType: file.contentType, fileSize: stored.size, fileSha256: stored.sha256 }),
         )
         await this.audit.record(actor, { action: 'interview_guide.added', studyId, targetType: 'interview_guide', targetId: id, details: { label: input.label } }, manager)
         return saved
-      })
-      return this.toDto(guide)
-    } catch (error) {
-      await this.storage.delete(key).catch(() => {})
-      throw error
-    }
+      }),
+    )
+    return this.toDto(guide)
   }
 
   async file(studyId: string, guideId: string) {
