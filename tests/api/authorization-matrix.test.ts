@@ -94,6 +94,18 @@ describe('authorization matrix', () => {
     expect(mismatches).toEqual([])
   })
 
+  it('never lets a coder or patient partner reach a route that returns identifying data', () => {
+    // routes whose answers hold contact details, consent records, identifiable transcript text or the
+    // anonymisation log: only the lead and coordinators may call them (design: coders and patient
+    // partners never receive identifying data)
+    const identifying = [/\/participants\/:participantId(\/|$)/, /\/consent/, /\/deidentification/, /\/anonymisation-log/, /\/exports\//, /\/invitations$/, /\/audit$/, /\/interviews/]
+    const leaks = listRoutes(ctx.app)
+      .filter((r) => r.path.startsWith('/api/studies/') && identifying.some((re) => re.test(r.path)))
+      .filter((r) => (['coder', 'partner'] as const).some((role) => decide({ signedIn: true, siteAdmin: false, role }, r.access!) === 'allow'))
+      .map((r) => `${r.method} ${r.path} (${r.access})`)
+    expect(leaks).toEqual([])
+  })
+
   it('a removed member loses access on the very next request', async () => {
     const fresh = await createTestContext()
     try {
