@@ -55,6 +55,13 @@ export const STUDY_ACTIONS = {
   'transcripts.upload': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'upload transcripts and review their de-identification' },
   'transcripts.approve': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'approve a de-identified transcript' },
   'transcripts.read': { roles: ['lead', 'coordinator', 'coder'], siteAdmin: false, description: 'read approved, de-identified transcripts' },
+  'codebook.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'see the codebook, its snapshots and download it' },
+  'codebook.manage': { roles: ['lead', 'coder'], siteAdmin: false, description: 'add, edit, nest, merge, split, retire and import codes; save snapshots' },
+  'coding.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'read coding (your own, others’ when the study allows it), search, and see the code matrices' },
+  'coding.write': { roles: ['lead', 'coder'], siteAdmin: false, description: 'code transcripts: add, resize, recode and remove your own excerpts' },
+  'coding.settings': { roles: ['lead'], siteAdmin: false, description: 'decide whether coders may see each other’s coding' },
+  'memos.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'read and search memos' },
+  'memos.write': { roles: ['lead', 'coder'], siteAdmin: false, description: 'write memos and change or remove your own' },
   'anonymisationLog.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'read the anonymisation log (identifiable)' },
 } as const satisfies Record<string, Rule>
 export type StudyAction = keyof typeof STUDY_ACTIONS

@@ -68,6 +68,16 @@ import {
   mdiSignatureFreehand,
   mdiTextBoxOutline,
   mdiViewDashboardOutline,
+  mdiTagMultipleOutline,
+  mdiNotebookEditOutline,
+  mdiTextSearch,
+  mdiTableLarge,
+  mdiKeyboardOutline,
+  mdiCameraOutline,
+  mdiCallMerge,
+  mdiCallSplit,
+  mdiArchiveOutline,
+  mdiFileImportOutline,
 } from '@mdi/js'
 import type { IconAliases } from 'vuetify'
 import { aliases as mdiAliases } from 'vuetify/iconsets/mdi-svg'
@@ -146,6 +156,16 @@ const heardwellIcons = {
   acceptAll: mdiCheckAll,
   anonymisationLog: mdiFileEyeOutline,
   back: mdiArrowLeft,
+  codebook: mdiTagMultipleOutline,
+  memos: mdiNotebookEditOutline,
+  search: mdiTextSearch,
+  matrices: mdiTableLarge,
+  shortcuts: mdiKeyboardOutline,
+  snapshot: mdiCameraOutline,
+  merge: mdiCallMerge,
+  split: mdiCallSplit,
+  retire: mdiArchiveOutline,
+  import: mdiFileImportOutline,
 }
 
 export const iconAliases: IconAliases = { ...mdiAliases, ...heardwellIcons } as IconAliases

@@ -116,6 +116,36 @@ export const routes: RouteRecordRaw[] = [
     meta: { permission: 'transcripts.upload', title: 'De-identify a transcript' },
   },
   {
+    path: '/studies/:studyId/transcripts/:transcriptId/coding',
+    name: 'study-coding',
+    component: () => import('@/views/coding/CodingView.vue'),
+    meta: { permission: 'coding.read', title: 'Coding' },
+  },
+  {
+    path: '/studies/:studyId/codebook',
+    name: 'study-codebook',
+    component: () => import('@/views/coding/CodebookView.vue'),
+    meta: { permission: 'codebook.read', title: 'Codebook' },
+  },
+  {
+    path: '/studies/:studyId/memos',
+    name: 'study-memos',
+    component: () => import('@/views/coding/MemosView.vue'),
+    meta: { permission: 'memos.read', title: 'Memos' },
+  },
+  {
+    path: '/studies/:studyId/search',
+    name: 'study-search',
+    component: () => import('@/views/coding/SearchView.vue'),
+    meta: { permission: 'coding.read', title: 'Search' },
+  },
+  {
+    path: '/studies/:studyId/matrices',
+    name: 'study-matrices',
+    component: () => import('@/views/coding/MatricesView.vue'),
+    meta: { permission: 'coding.read', title: 'Code matrices' },
+  },
+  {
     path: '/studies/:studyId/anonymisation-log',
     name: 'study-anonymisation-log',
     component: () => import('@/views/transcripts/AnonymisationLogView.vue'),
