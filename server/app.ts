@@ -27,6 +27,10 @@ import { publicConsentRouter } from './modules/consent/public-consent.router.js'
 import { exportsRouter } from './modules/recruitment/exports.router.js'
 import { interviewsRouter } from './modules/interviews/interviews.router.js'
 import { transcriptsRouter } from './modules/transcripts/transcripts.router.js'
+import { codesRouter } from './modules/coding/codes.router.js'
+import { codingAnalysisRouter } from './modules/coding/coding-analysis.router.js'
+import { excerptsRouter } from './modules/coding/excerpts.router.js'
+import { memosRouter } from './modules/coding/memos.router.js'
 import { participantsRouter } from './modules/recruitment/participants.router.js'
 import { publicRouter } from './modules/recruitment/public.router.js'
 import { recruitmentRouter } from './modules/recruitment/recruitment.router.js'
@@ -99,6 +103,10 @@ export function createApp(deps: AppDeps) {
   api.use(consentRouter({ authorize, consent, withdrawals, summaries: consentSummaries }))
   api.use(interviewsRouter({ authorize, interviews, guides }))
   api.use(transcriptsRouter({ authorize, transcripts }))
+  api.use(codesRouter({ authorize, codes: services.codes, structure: services.codeStructure, transfer: services.codebookTransfer }))
+  api.use(excerptsRouter({ authorize, excerpts: services.excerpts }))
+  api.use(memosRouter({ authorize, memos: services.memos }))
+  api.use(codingAnalysisRouter({ authorize, search: services.codingSearch, matrices: services.codeMatrices, excerpts: services.excerpts }))
   api.use(publicConsentRouter({ authorize, consent, withdrawals }))
   api.use(publicRouter({ authorize, dataSource, pool, participants, questionnaires, perHour: config.PUBLIC_ENQUIRIES_PER_HOUR }))
   if (deps.mailboxDir && config.NODE_ENV !== 'production') api.use(mailboxRouter({ authorize, directory: deps.mailboxDir }))

@@ -26,6 +26,14 @@ import { MemberService } from './modules/studies/member.service.js'
 import { StudyService } from './modules/studies/study.service.js'
 import { UserService } from './modules/users/user.service.js'
 import { TranscriptService } from './modules/transcripts/transcript.service.js'
+import { CodeMatrixService } from './modules/coding/code-matrix.service.js'
+import { CodeStructureService } from './modules/coding/code-structure.service.js'
+import { CodeService } from './modules/coding/code.service.js'
+import { CodebookTransferService } from './modules/coding/codebook-transfer.service.js'
+import { CodingScope } from './modules/coding/coding-scope.js'
+import { CodingSearchService } from './modules/coding/coding-search.service.js'
+import { ExcerptService } from './modules/coding/excerpt.service.js'
+import { MemoService } from './modules/coding/memo.service.js'
 
 export interface AppDeps {
   config: Config
@@ -73,6 +81,14 @@ export function buildServices(deps: AppDeps) {
   const interviews = new InterviewService(dataSource, boss, audit, mail, consent)
   const guides = new InterviewGuideService(dataSource, storage, audit)
   const transcripts = new TranscriptService(dataSource, storage, audit, consent)
-  return { transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
+  const codingScope = new CodingScope(dataSource, consent)
+  const codes = new CodeService(dataSource, audit, codingScope)
+  const codeStructure = new CodeStructureService(dataSource, audit, codes)
+  const codebookTransfer = new CodebookTransferService(dataSource, audit)
+  const excerpts = new ExcerptService(dataSource, transcripts, codingScope, audit)
+  const memos = new MemoService(dataSource, codingScope)
+  const codingSearch = new CodingSearchService(dataSource, codingScope)
+  const codeMatrices = new CodeMatrixService(dataSource, codingScope)
+  return { codingScope, codes, codeStructure, codebookTransfer, excerpts, memos, codingSearch, codeMatrices, transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
 }
 export type Services = ReturnType<typeof buildServices>

@@ -7,6 +7,10 @@ import { Interview } from '../modules/interviews/interview.entity.js'
 import { AnonymisationLogEntry } from '../modules/transcripts/anonymisation-log.entity.js'
 import { TranscriptTurn } from '../modules/transcripts/transcript-turn.entity.js'
 import { Transcript } from '../modules/transcripts/transcript.entity.js'
+import { CodebookSnapshot } from '../modules/coding/codebook-snapshot.entity.js'
+import { Code } from '../modules/coding/code.entity.js'
+import { Excerpt, ExcerptCode } from '../modules/coding/excerpt.entity.js'
+import { Memo } from '../modules/coding/memo.entity.js'
 import { AuditEvent } from '../modules/audit/audit-event.entity.js'
 import { PasswordResetToken } from '../modules/auth/password-reset-token.entity.js'
 import { OutboxMessage } from '../modules/mail/outbox-message.entity.js'
@@ -21,4 +25,4 @@ import { Study } from '../modules/studies/study.entity.js'
 import { User } from '../modules/users/user.entity.js'
 
 /** Every entity class; listed, never globbed (globs break under vitest). */
-export const entities = [User, Study, Membership, Invitation, PasswordResetToken, AuditEvent, OutboxMessage, ScreeningQuestionnaire, Participant, ParticipantContact, Screening, ParticipantEvent, ConsentForm, ConsentRecord, ConsentLink, Withdrawal, WithdrawalRequest, InterviewGuide, Interview, Transcript, TranscriptTurn, AnonymisationLogEntry]
+export const entities = [User, Study, Membership, Invitation, PasswordResetToken, AuditEvent, OutboxMessage, ScreeningQuestionnaire, Participant, ParticipantContact, Screening, ParticipantEvent, ConsentForm, ConsentRecord, ConsentLink, Withdrawal, WithdrawalRequest, InterviewGuide, Interview, Transcript, TranscriptTurn, AnonymisationLogEntry, Code, Excerpt, ExcerptCode, Memo, CodebookSnapshot]

@@ -60,3 +60,9 @@ export class UnavailableError extends AppError {
     super(503, 'unavailable', 'Service unavailable', `${what} is not available right now. Please try again in a minute.`)
   }
 }
+/** The request is well-formed but cannot be applied as it stands (a range outside the text, a retired code, a file with mistakes). */
+export class UnprocessableError extends AppError {
+  constructor(detail: string, errors: FieldError[] = []) {
+    super(422, 'unprocessable', 'This cannot be applied as it stands', detail, errors)
+  }
+}

@@ -39,3 +39,16 @@ export async function doneInterview(coordinator: Client, studyId: string, partic
 export async function uploadTranscript(coordinator: Client, studyId: string, interviewId: string, buffer: Buffer, name = 'transcript.txt') {
   return coordinator.agent.post(`/api/studies/${studyId}/interviews/${interviewId}/transcripts`).set('X-CSRF-Token', coordinator.csrf).attach('file', buffer, name)
 }
+
+/** A consented, interviewed participant with an approved transcript of `text` (every flag accepted). */
+export async function approvedTranscript(coordinator: Client, lead: Client, studyId: string, name: string, email: string, text: string, clauses?: Record<string, boolean>) {
+  const participantId = await consentedParticipant(coordinator, lead, studyId, name, email, clauses as never)
+  const interview = await doneInterview(coordinator, studyId, participantId, (await coordinator.get('/api/auth/me')).body.user.id)
+  const up = await uploadTranscript(coordinator, studyId, interview.id, Buffer.from(text, 'utf8'))
+  if (up.status !== 201) throw new Error(`upload: ${up.status} ${JSON.stringify(up.body)}`)
+  const review = (await coordinator.get(`/api/studies/${studyId}/transcripts/${up.body.id}/deidentification`)).body
+  await coordinator.put(`/api/studies/${studyId}/transcripts/${up.body.id}/deidentification`, { decisions: review.flags.map((f: { id: string }) => ({ id: f.id, decision: 'rejected' })) })
+  const approved = await coordinator.post(`/api/studies/${studyId}/transcripts/${up.body.id}/approve`)
+  if (approved.status !== 200) throw new Error(`approve: ${approved.status} ${JSON.stringify(approved.body)}`)
+  return { participantId, transcriptId: up.body.id as string }
+}

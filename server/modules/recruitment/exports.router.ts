@@ -2,6 +2,7 @@ import { Router } from 'express'
 import { z } from 'zod'
 import { can } from '../../../shared/permissions.js'
 import { idParams } from '../../../shared/schemas/common.js'
+import { attachment } from '../../lib/csv.js'
 import { ForbiddenError } from '../../lib/errors.js'
 import type { Authorize } from '../../middleware/authorize.js'
 import { validate } from '../../middleware/validate.js'
@@ -9,12 +10,6 @@ import { actorOf } from '../audit/audit.service.js'
 import type { ScreeningLogService } from './screening-log.service.js'
 
 const exportQuery = z.strictObject({ contacts: z.enum(['true', 'false']).default('false') })
-
-/** RFC 6266 attachment with an ASCII fallback name and the UTF-8 one. */
-function attachment(filename: string): string {
-  const ascii = filename.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_')
-  return `attachment; filename="${ascii}"; filename*=UTF-8''${encodeURIComponent(filename)}`
-}
 
 export function exportsRouter({ authorize, screeningLog }: { authorize: Authorize; screeningLog: ScreeningLogService }) {
   const router = Router()

@@ -1,17 +1,9 @@
 import Papa from 'papaparse'
 import type { DataSource } from 'typeorm'
+import { safeCell } from '../../lib/csv.js'
 import { NotFoundError } from '../../lib/errors.js'
 import type { AuditActor, AuditService } from '../audit/audit.service.js'
 import { Study } from '../studies/study.entity.js'
-
-/**
- * Neutralises spreadsheet formulas: a cell starting with = + - @ tab or carriage return gets a
- * leading apostrophe (OWASP ASVS 5.0 1.2.10; OWASP "CSV Injection").
- */
-export function safeCell(value: unknown): string {
-  const text = value === null || value === undefined ? '' : String(value)
-  return /^[=+\-@\t\r]/.test(text) ? `'${text}` : text
-}
 
 const BASE_COLUMNS = ['pseudonym', 'enquired_at', 'source', 'source_detail', 'status', 'screened_at', 'questionnaire_version', 'computed_outcome', 'help_seeking', 'criteria_not_met', 'needs_review', 'override_outcome', 'override_reason', 'characteristics']
 const CONTACT_COLUMNS = ['name', 'email', 'phone', 'country', 'time_zone']

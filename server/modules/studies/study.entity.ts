@@ -66,4 +66,8 @@ export class Study extends BaseEntity {
   /** the team's own list of terms the de-identification scan always flags (local place names, a clinic…) */
   @Column({ type: 'jsonb', name: 'deidentification_terms', default: [] })
   deidentificationTerms: { term: string; category: string }[]
+
+  /** coding: coders may show another coder's coding beside their own */
+  @Column({ type: 'boolean', name: 'coder_comparison', default: false })
+  coderComparison: boolean
 }

@@ -3,6 +3,7 @@ import { Column, Entity, Index, PrimaryGeneratedColumn } from 'typeorm'
 /** A speaker turn of an approved transcript; offsets are into its de-identified text. */
 @Entity('transcript_turns')
 @Index(['transcriptId', 'position'], { unique: true })
+@Index('transcript_turns_search_idx', { synchronize: false })
 export class TranscriptTurn {
   @PrimaryGeneratedColumn('uuid')
   id: string
@@ -24,4 +25,8 @@ export class TranscriptTurn {
 
   @Column({ type: 'integer', name: 'end_offset' })
   end: number
+
+  /** the turn's de-identified text, for full-text search (cleared when the participant's data is purged) */
+  @Column({ type: 'text', nullable: true })
+  text: string | null
 }

@@ -39,6 +39,9 @@ export class TranscriptService {
     private readonly consent: ConsentService,
   ) {}
 
+  /** approved texts by SHA-256, oldest first (a small first-in, first-out cache) */
+  private readonly approvedTexts = new Map<string, string>()
+
   private async summaries(rows: Transcript[]): Promise<TranscriptSummary[]> {
     if (!rows.length) return []
     const interviews = new Map((await this.dataSource.getRepository(Interview).findBy(rows.map((r) => ({ id: r.interviewId })))).map((i) => [i.id, i]))
@@ -186,7 +189,7 @@ export class TranscriptService {
             startMs: t.startMs,
             start: remapOffset(t.start, edits, 'start'),
             end: remapOffset(t.end, edits, 'end'),
-          })),
+          })).map((t) => ({ ...t, text: text.slice(t.start, t.end) })),
         )
         if (log.length) {
           await manager.insert(AnonymisationLogEntry, log.map((l) => ({ studyId, transcriptId: row.id, original: l.original.slice(0, 300), placeholder: l.placeholder, category: l.category, byId: actor.id, byName: by })))
@@ -218,12 +221,27 @@ export class TranscriptService {
 
   /** The approved, de-identified text, for anyone who may read it and only while consent allows coding. */
   async read(studyId: string, transcriptId: string): Promise<TranscriptReading> {
-    const row = await this.dataSource.getRepository(Transcript).findOneBy({ id: transcriptId, studyId, status: 'approved' })
-    if (!row || !(await this.codable(studyId, [row.participantId])).has(row.participantId)) throw new NotFoundError('approved transcript')
+    const { row, text } = await this.codableText(studyId, transcriptId)
     const [summary] = await this.summaries([row])
-    const text = (await this.storage.get(row.objectKey!, row.sha256!)).toString('utf8')
     const turns = await this.dataSource.getRepository(TranscriptTurn).find({ where: { transcriptId }, order: { position: 'ASC' } })
     return { ...summary!, text, sha256: row.sha256!, turns: turns.map((t) => ({ speaker: t.speaker, startMs: t.startMs, start: t.start, end: t.end })) }
+  }
+
+  /**
+   * An approved transcript's de-identified text, when its participant's data may be coded (else 404).
+   * Approved text never changes (a correction is a new version), so it is kept in a small cache keyed
+   * by its SHA-256: coding checks every excerpt against it.
+   */
+  async codableText(studyId: string, transcriptId: string): Promise<{ row: Transcript; text: string }> {
+    const row = await this.dataSource.getRepository(Transcript).findOneBy({ id: transcriptId, studyId, status: 'approved' })
+    if (!row || !row.objectKey || !(await this.codable(studyId, [row.participantId])).has(row.participantId)) throw new NotFoundError('approved transcript')
+    let text = this.approvedTexts.get(row.sha256!)
+    if (text === undefined) {
+      text = (await this.storage.get(row.objectKey, row.sha256!)).toString('utf8')
+      if (this.approvedTexts.size >= 32) this.approvedTexts.delete(this.approvedTexts.keys().next().value!)
+      this.approvedTexts.set(row.sha256!, text)
+    }
+    return { row, text }
   }
 
   async terms(studyId: string): Promise<DeidentificationTerms> {

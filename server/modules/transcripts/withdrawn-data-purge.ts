@@ -9,7 +9,8 @@ export const PURGE_QUEUE = 'purge-withdrawn-data'
 /**
  * Deletes the transcript files of participants who withdrew their data, once the study's grace
  * period has passed (the grace lets a mistaken withdrawal be corrected). The rows stay, marked
- * purged, so the audit trail and counts still make sense; the text is gone from the store.
+ * purged, so the audit trail and counts still make sense; the text is gone from the store and
+ * from the searchable copies (turn texts, excerpt passages).
  */
 export async function purgeWithdrawnData(dataSource: DataSource, storage: ObjectStore, audit: AuditService, now = new Date()): Promise<number> {
   const due: { id: string; study_id: string; object_key: string }[] = await dataSource.query(
@@ -25,6 +26,9 @@ export async function purgeWithdrawnData(dataSource: DataSource, storage: Object
     await storage.delete(row.object_key)
     await dataSource.transaction(async (manager) => {
       await manager.update(Transcript, { id: row.id }, { purgedAt: now, objectKey: null })
+      // the searchable copies of the text go too: turn texts and the excerpts' quoted passages
+      await manager.query(`UPDATE transcript_turns SET text = NULL WHERE transcript_id = $1`, [row.id])
+      await manager.query(`UPDATE excerpts SET text = '' WHERE transcript_id = $1`, [row.id])
       await audit.record({ id: null, email: null, ip: null }, { action: 'transcript.purged', studyId: row.study_id, targetType: 'transcript', targetId: row.id, details: { reason: 'participant withdrew their data; grace period over' } }, manager)
     })
   }

@@ -1,0 +1,29 @@
+import type { DataSource } from 'typeorm'
+import type { ConsentService } from '../consent/consent.service.js'
+
+/**
+ * Whose data coding may touch: the consent policy (shared/consent/data-use-policy.ts) decides, through
+ * ConsentService.dataUseFor. Excerpts of participants whose data may not be used are never shown,
+ * counted or searched.
+ */
+export class CodingScope {
+  constructor(
+    private readonly dataSource: DataSource,
+    private readonly consent: ConsentService,
+  ) {}
+
+  /** Participants with an approved transcript in the study whose data may be coded. */
+  async usableParticipants(studyId: string): Promise<string[]> {
+    const rows: { participant_id: string }[] = await this.dataSource.query(
+      `SELECT DISTINCT participant_id FROM transcripts WHERE study_id = $1 AND status = 'approved' AND purged_at IS NULL`,
+      [studyId],
+    )
+    const uses = await this.consent.dataUseFor(studyId, rows.map((r) => r.participant_id))
+    return [...uses].filter(([, use]) => use.mayCode).map(([id]) => id)
+  }
+
+  async mayCode(studyId: string, participantId: string): Promise<boolean> {
+    const uses = await this.consent.dataUseFor(studyId, [participantId])
+    return uses.get(participantId)?.mayCode ?? false
+  }
+}

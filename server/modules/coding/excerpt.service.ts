@@ -1,0 +1,176 @@
+import { In, type DataSource, type EntityManager } from 'typeorm'
+import { checkRange } from '../../../shared/coding/offsets.js'
+import type { StudyRole } from '../../../shared/permissions.js'
+import type { CodeExcerpts, CodingSettings, Excerpt as ExcerptDto, ExcerptCreate, ExcerptList, ExcerptUpdate } from '../../../shared/schemas/coding.js'
+import type { AuditActor, AuditService } from '../audit/audit.service.js'
+import { ForbiddenError, NotFoundError, UnprocessableError } from '../../lib/errors.js'
+import { Study } from '../studies/study.entity.js'
+import type { TranscriptService } from '../transcripts/transcript.service.js'
+import { User } from '../users/user.entity.js'
+import { Code } from './code.entity.js'
+import type { CodingScope } from './coding-scope.js'
+import { Excerpt, ExcerptCode } from './excerpt.entity.js'
+import { updateWithVersion } from './versioned-update.js'
+
+/**
+ * Excerpts: one coder's codes on a passage of one approved transcript version. A coder sees and
+ * changes only their own; another coder's coding is shown read-only when the study allows comparison
+ * (the lead may always look). Ranges are checked against the approved text (UTF-16 offsets).
+ */
+export class ExcerptService {
+  constructor(
+    private readonly dataSource: DataSource,
+    private readonly transcripts: TranscriptService,
+    private readonly scope: CodingScope,
+    private readonly audit: AuditService,
+  ) {}
+
+  async settings(studyId: string): Promise<CodingSettings> {
+    const study = await this.dataSource.getRepository(Study).findOne({ where: { id: studyId }, select: { id: true, coderComparison: true } })
+    if (!study) throw new NotFoundError('study')
+    return { coderComparison: study.coderComparison }
+  }
+
+  async setSettings(studyId: string, input: CodingSettings, actor: AuditActor): Promise<CodingSettings> {
+    await this.dataSource.transaction(async (manager) => {
+      await manager.update(Study, { id: studyId }, { coderComparison: input.coderComparison })
+      await this.audit.record(actor, { action: 'coding.settings_changed', studyId, targetType: 'study', targetId: studyId, details: { coderComparison: input.coderComparison } }, manager)
+    })
+    return this.settings(studyId)
+  }
+
+  /** Whether the caller may see another coder's coding: the lead always, coders when the study allows comparison. */
+  async comparisonAllowed(studyId: string, role: StudyRole | null): Promise<boolean> {
+    return role === 'lead' || (await this.settings(studyId)).coderComparison
+  }
+
+  async assertMayView(studyId: string, me: Express.User, role: StudyRole | null, coderId: string | undefined): Promise<boolean> {
+    const allowed = await this.comparisonAllowed(studyId, role)
+    if (coderId && coderId !== me.id && !allowed) throw new ForbiddenError('This study keeps each coder’s coding to themselves. The lead can switch on comparison between coders.')
+    return allowed
+  }
+
+  async list(studyId: string, transcriptId: string, me: Express.User, role: StudyRole | null, coderId?: string): Promise<ExcerptList> {
+    await this.transcripts.codableText(studyId, transcriptId)
+    const comparisonAllowed = await this.assertMayView(studyId, me, role, coderId)
+    const whose = coderId ?? me.id
+    const coders: { id: string; name: string; n: number }[] = await this.dataSource.query(
+      `SELECT u.id, u.name, count(e.id)::int AS n FROM excerpts e JOIN users u ON u.id = e.coder_id
+        WHERE e.transcript_id = $1 AND e.study_id = $2 ${comparisonAllowed ? '' : 'AND e.coder_id = $3'} GROUP BY u.id, u.name ORDER BY u.name`,
+      comparisonAllowed ? [transcriptId, studyId] : [transcriptId, studyId, me.id],
+    )
+    const rows = await this.dataSource.getRepository(Excerpt).find({ where: { studyId, transcriptId, coderId: whose }, order: { start: 'ASC', end: 'ASC' } })
+    return { excerpts: await this.dtos(this.dataSource.manager, rows), coders: coders.map((c) => ({ id: c.id, name: c.name, excerptCount: c.n })), comparisonAllowed }
+  }
+
+  /** Every excerpt carrying one code, across the study (for splitting a code, choosing its example). */
+  async listForCode(studyId: string, codeId: string): Promise<CodeExcerpts> {
+    const usable = await this.scope.usableParticipants(studyId)
+    const found: { id: string; pseudonym: string }[] = await this.dataSource.query(
+      `SELECT e.id, p.pseudonym FROM excerpts e JOIN excerpt_codes ec ON ec.excerpt_id = e.id AND ec.code_id = $2
+         JOIN participants p ON p.id = e.participant_id
+        WHERE e.study_id = $1 AND e.participant_id = ANY($3::uuid[]) ORDER BY e.created_at LIMIT 5000`,
+      [studyId, codeId, usable],
+    )
+    const byId = new Map((await this.dataSource.getRepository(Excerpt).findBy({ id: In(found.map((f) => f.id)) })).map((e) => [e.id, e]))
+    const rows = found.filter((f) => byId.has(f.id)).map((f) => Object.assign(byId.get(f.id)!, { pseudonym: f.pseudonym }))
+    const dtos = await this.dtos(this.dataSource.manager, rows)
+    return { excerpts: dtos.map((d, i) => ({ ...d, pseudonym: rows[i]!.pseudonym })) }
+  }
+
+  async create(studyId: string, transcriptId: string, input: ExcerptCreate, me: Express.User): Promise<ExcerptDto> {
+    const { row, text } = await this.transcripts.codableText(studyId, transcriptId)
+    this.checkRange(text, input.start, input.end, input.text)
+    return this.dataSource.transaction(async (manager) => {
+      await this.checkCodes(manager, studyId, input.codeIds)
+      const saved = await manager.save(
+        manager.create(Excerpt, { studyId, transcriptId, participantId: row.participantId, coderId: me.id, start: input.start, end: input.end, text: text.slice(input.start, input.end) }),
+      )
+      await manager.insert(ExcerptCode, input.codeIds.map((codeId) => ({ excerptId: saved.id, codeId })))
+      return (await this.dtos(manager, [saved], me.name))[0]!
+    })
+  }
+
+  async update(studyId: string, excerptId: string, input: ExcerptUpdate, me: Express.User): Promise<ExcerptDto> {
+    const current = await this.own(studyId, excerptId, me)
+    const changes: Partial<Excerpt> = {}
+    if (input.start !== undefined || input.end !== undefined) {
+      const { text } = await this.transcripts.codableText(studyId, current.transcriptId)
+      const start = input.start ?? current.start
+      const end = input.end ?? current.end
+      this.checkRange(text, start, end, input.text ?? text.slice(start, end))
+      Object.assign(changes, { start, end, text: text.slice(start, end) })
+    } else {
+      await this.transcripts.codableText(studyId, current.transcriptId)
+    }
+    return this.dataSource.transaction(async (manager) => {
+      await updateWithVersion(manager, Excerpt, { id: excerptId, studyId }, input.version, changes, 'excerpt')
+      if (input.codeIds) {
+        const kept = await manager.findBy(ExcerptCode, { excerptId })
+        const added = input.codeIds.filter((id) => !kept.some((k) => k.codeId === id))
+        await this.checkCodes(manager, studyId, added)
+        const removed = kept.filter((k) => !input.codeIds!.includes(k.codeId)).map((k) => k.codeId)
+        if (removed.length) await manager.delete(ExcerptCode, { excerptId, codeId: In(removed) })
+        if (added.length) await manager.insert(ExcerptCode, added.map((codeId) => ({ excerptId, codeId })))
+      }
+      const saved = await manager.findOneByOrFail(Excerpt, { id: excerptId })
+      return (await this.dtos(manager, [saved], me.name))[0]!
+    })
+  }
+
+  async remove(studyId: string, excerptId: string, version: number, me: Express.User): Promise<void> {
+    await this.own(studyId, excerptId, me)
+    await this.dataSource.transaction(async (manager) => {
+      // the version check and the delete in one: a stale page cannot remove what someone just changed
+      await updateWithVersion(manager, Excerpt, { id: excerptId, studyId }, version, {}, 'excerpt')
+      await manager.query(`UPDATE codes SET example_excerpt_id = NULL WHERE example_excerpt_id = $1`, [excerptId])
+      await manager.delete(Excerpt, { id: excerptId })
+    })
+  }
+
+  private async own(studyId: string, excerptId: string, me: Express.User): Promise<Excerpt> {
+    const row = await this.dataSource.getRepository(Excerpt).findOneBy({ id: excerptId, studyId })
+    if (!row) throw new NotFoundError('excerpt')
+    if (row.coderId !== me.id) throw new ForbiddenError('Each coder changes only their own excerpts. Add your own excerpt instead.')
+    return row
+  }
+
+  private checkRange(text: string, start: number, end: number, quote: string): void {
+    const problem = checkRange(text, start, end, quote)
+    if (problem) throw new UnprocessableError(problem.message, [{ path: problem.field, message: problem.message }])
+  }
+
+  /** Codes must be this study's, and active: retired and merged codes take no new excerpts. */
+  private async checkCodes(manager: EntityManager, studyId: string, codeIds: string[]): Promise<void> {
+    if (!codeIds.length) return
+    const codes = await manager.find(Code, { where: { id: In(codeIds), studyId }, select: { id: true, label: true, status: true } })
+    if (codes.length !== codeIds.length) throw new UnprocessableError('One of the codes is not in this study’s codebook. Reload the codebook and choose again.', [{ path: 'codeIds', message: 'Choose codes from this codebook.' }])
+    const closed = codes.find((c) => c.status !== 'active')
+    if (closed) throw new UnprocessableError(`“${closed.label}” is ${closed.status === 'retired' ? 'retired' : 'merged into another code'} and takes no new excerpts. Choose an active code.`, [{ path: 'codeIds', message: 'Choose active codes.' }])
+  }
+
+  private async dtos(manager: EntityManager, rows: Excerpt[], knownName?: string): Promise<ExcerptDto[]> {
+    if (!rows.length) return []
+    const ids = rows.map((r) => r.id)
+    const [links, coders] = await Promise.all([
+      manager.find(ExcerptCode, { where: { excerptId: In(ids) } }),
+      knownName ? Promise.resolve([]) : manager.find(User, { where: { id: In([...new Set(rows.map((r) => r.coderId))]) }, select: { id: true, name: true } }),
+    ])
+    const nameOf = new Map(coders.map((c) => [c.id, c.name]))
+    const codesOf = new Map<string, string[]>()
+    for (const link of links) codesOf.set(link.excerptId, [...(codesOf.get(link.excerptId) ?? []), link.codeId])
+    return rows.map((r) => ({
+      id: r.id,
+      transcriptId: r.transcriptId,
+      coderId: r.coderId,
+      coderName: knownName ?? nameOf.get(r.coderId) ?? '',
+      start: r.start,
+      end: r.end,
+      text: r.text,
+      codeIds: codesOf.get(r.id) ?? [],
+      version: r.version,
+      createdAt: r.createdAt.toISOString(),
+      updatedAt: r.updatedAt.toISOString(),
+    }))
+  }
+}
