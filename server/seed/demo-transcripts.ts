@@ -11,7 +11,7 @@ import type { ObjectStore } from '../storage/object-store.js'
  * Invented, already de-identified interviews for the demo study: each caregiver answers the same six
  * guide questions with answers drawn from the themes the study is about. Every word is invented.
  */
-const QUESTIONS = [
+export const QUESTIONS = [
   'Thank you for talking with me. Could you tell me about the day your relative came home from hospital?',
   'What information did you get about medicines and follow-up?',
   'How did things go in the first weeks at home?',
@@ -20,7 +20,7 @@ const QUESTIONS = [
   'Looking back, what do you wish you had known at discharge?',
 ]
 
-const ANSWERS: string[][] = [
+export const ANSWERS: string[][] = [
   [
     'It was a Friday afternoon and everything happened in a rush. The nurse handed us a bag of tablets and a folder and said the taxi was waiting.',
     'We waited most of the day for the pharmacy. By the time [NAME-1] was allowed to leave it was dark and we were both exhausted.',
@@ -53,13 +53,13 @@ const ANSWERS: string[][] = [
   ],
 ]
 
-const INTERVIEWED = ['P01', 'P02', 'P03', 'P06', 'P08', 'P14', 'P15', 'P16', 'P17', 'P18', 'P19', 'P20', 'P21']
+export const INTERVIEWED = ['P01', 'P02', 'P03', 'P06', 'P08', 'P14', 'P15', 'P16', 'P17', 'P18', 'P19', 'P20', 'P21']
 const INTERVIEWERS: { role: 'coordinator' | 'lead'; zone: string }[] = [
   { role: 'coordinator', zone: 'America/Toronto' },
   { role: 'lead', zone: 'Europe/London' },
 ]
 
-function transcriptFor(index: number): { text: string; turns: { speaker: string; start: number; end: number; startMs: number }[] } {
+export function transcriptFor(index: number): { text: string; turns: { speaker: string; start: number; end: number; startMs: number }[] } {
   const parts: string[] = []
   const turns: { speaker: string; start: number; end: number; startMs: number }[] = []
   let offset = 0
@@ -120,6 +120,6 @@ export async function seedDemoInterviews(manager: EntityManager, study: Study, s
       approvedById: staff.coordinator,
       approvedAt: when,
     })
-    await manager.insert(TranscriptTurn, turns.map((t, position) => ({ transcriptId: id, position, speaker: t.speaker === 'Participant' ? pseudonym : t.speaker, startMs: t.startMs, start: t.start, end: t.end })))
+    await manager.insert(TranscriptTurn, turns.map((t, position) => ({ transcriptId: id, position, speaker: t.speaker === 'Participant' ? pseudonym : t.speaker, startMs: t.startMs, start: t.start, end: t.end, text: text.slice(t.start, t.end) })))
   }
 }

@@ -3,6 +3,7 @@ import type { Logger } from '../lib/logger.js'
 import type { ObjectStore } from '../storage/object-store.js'
 import { seedDemoConsent } from './demo-consent.js'
 import { seedDemoInterviews } from './demo-transcripts.js'
+import { seedDemoCoding } from './demo-coding.js'
 import { AuditEvent } from '../modules/audit/audit-event.entity.js'
 import { hashPassword } from '../modules/auth/passwords.js'
 import { Membership } from '../modules/studies/membership.entity.js'
@@ -31,7 +32,7 @@ export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Lo
     let study = await manager.findOneBy(Study, { code: DEMO_STUDY.code })
     let created = false
     if (!study) {
-      study = await manager.save(manager.create(Study, { ...DEMO_STUDY, ...DEMO_RECRUITMENT }))
+      study = await manager.save(manager.create(Study, { ...DEMO_STUDY, ...DEMO_RECRUITMENT, coderComparison: true }))
       created = true
     }
     for (const member of DEMO_TEAM) {
@@ -50,6 +51,8 @@ export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Lo
         const lead = DEMO_TEAM.find((m) => m.role === 'lead')!
         await seedDemoConsent(manager, study, storage, { id: userIds.get(lead.email)!, name: lead.name }, { id: userIds.get(coordinator.email)!, name: coordinator.name })
         await seedDemoInterviews(manager, study, storage, { lead: userIds.get(lead.email)!, coordinator: userIds.get(coordinator.email)! })
+        const coders = DEMO_TEAM.filter((m) => m.role === 'coder').map((m) => userIds.get(m.email)!)
+        await seedDemoCoding(manager, study, { lead: userIds.get(lead.email)!, coder1: coders[0]!, coder2: coders[1]! })
       }
       await manager.getRepository(AuditEvent).save(
         manager.create(AuditEvent, {

@@ -56,4 +56,24 @@ describe('demo study', () => {
     expect(reading.turns.length).toBe(12)
     for (const turn of reading.turns) expect(reading.text.slice(turn.start, turn.end).trim().length).toBeGreaterThan(10)
   })
+
+  it('has a codebook of about twenty codes and two coders’ coding on several transcripts, withdrawn data left out', async () => {
+    const codes = (await lead.get(`/api/studies/${studyId}/codes`)).body.codes as { label: string; parentId: string | null; excerptCount: number; example: unknown }[]
+    expect(codes.length).toBeGreaterThanOrEqual(18)
+    expect(codes.length).toBeLessThanOrEqual(26)
+    expect(codes.filter((c) => c.parentId === null).length).toBeGreaterThan(3)
+    expect(codes.filter((c) => c.example).length).toBeGreaterThan(5)
+    const transcripts = (await lead.get(`/api/studies/${studyId}/transcripts`)).body.transcripts as { id: string; pseudonym: string }[]
+    const coders = new Map<string, number>()
+    for (const t of transcripts.filter((x) => x.pseudonym !== 'P08')) {
+      const list = (await lead.get(`/api/studies/${studyId}/transcripts/${t.id}/excerpts`)).body
+      for (const c of list.coders) coders.set(c.name, (coders.get(c.name) ?? 0) + 1)
+    }
+    expect([...coders.values()].filter((n) => n >= 3)).toHaveLength(2) // both coders coded at least three transcripts
+    const matrix = (await lead.get(`/api/studies/${studyId}/matrices/code-participant`)).body
+    expect(matrix.excluded).toBeGreaterThan(0) // P08's excerpts are kept but never counted
+    expect(matrix.participants.map((p: { pseudonym: string }) => p.pseudonym)).not.toContain('P08')
+    expect((await lead.get(`/api/studies/${studyId}/memos`)).body.memos.length).toBeGreaterThanOrEqual(3)
+    expect((await lead.get(`/api/studies/${studyId}/codebook/snapshots`)).body.snapshots).toHaveLength(1)
+  })
 })
