@@ -5,23 +5,8 @@
  * Runs against a throw-away database on its own PostgreSQL cluster; bounded in count and time,
  * loopback only.
  */
-import { mkdtempSync, rmSync } from 'node:fs'
-import { tmpdir } from 'node:os'
-import path from 'node:path'
 import http from 'node:http'
-import express from 'express'
-import pg from 'pg'
-import PgBoss from 'pg-boss'
-import { ensureCluster, ensurePostgresInstalled, freePort, stopCluster } from '../lib/postgres.mjs'
-import { createApp } from '../../server/app.js'
-import { loadConfig } from '../../server/config.js'
-import { createDataSource } from '../../server/db/data-source.js'
-import { BOSS_SCHEMA, migrateDatabase } from '../../server/db/migrate.js'
-import { createLogger } from '../../server/lib/logger.js'
-import { createMailTransport } from '../../server/modules/mail/mail-transport.js'
-import { seedDemo } from '../../server/seed/demo.js'
-import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
-import { ObjectStore } from '../../server/storage/object-store.js'
+import { startBenchEnvironment } from './bench-environment.js'
 
 const REQUESTS = Number(process.env.BENCH_REQUESTS ?? 2000)
 const CONCURRENCY = 8
@@ -54,47 +39,10 @@ async function measure(port: number, paths: string | string[], headers: Record<s
 
 /** Runs the API benchmark on its own throw-away cluster. */
 export async function runApiThroughput(): Promise<void> {
-  const workDir = mkdtempSync(path.join(tmpdir(), 'heardwell-bench-'))
-  const bin = ensurePostgresInstalled()
-  const pgPort = await freePort()
-  await ensureCluster({ bin, dataDir: path.join(workDir, 'pg'), port: pgPort, fast: true, log: () => {} })
+  const env = await startBenchEnvironment()
   try {
-    const admin = new pg.Client({ host: '127.0.0.1', port: pgPort, user: 'postgres', database: 'postgres' })
-    await admin.connect()
-    await admin.query('CREATE DATABASE bench')
-    await admin.end()
-    const url = `postgres://postgres@127.0.0.1:${pgPort}/bench`
-    const config = loadConfig({ NODE_ENV: 'test', DATABASE_URL: url, SESSION_SECRET: 'bench-secret-bench-secret-bench-secret', LOG_LEVEL: 'silent', S3_ENDPOINT: 'http://127.0.0.1:9', SMTP_URL: 'smtp://127.0.0.1:9' })
-    const dataSource = await createDataSource(url, { logging: false }).initialize()
-    await migrateDatabase(dataSource, url)
-    const { studyId } = await seedDemo(dataSource, 'test')
-    const boss = new PgBoss({ connectionString: url, schema: BOSS_SCHEMA, migrate: false, supervise: false, schedule: false })
-    boss.on('error', () => {})
-    await boss.start()
-    const app = createApp({
-      config,
-      dataSource,
-      storage: new ObjectStore({ endpoint: config.S3_ENDPOINT, region: 'us-east-1', bucket: 'b', forcePathStyle: true }),
-      boss,
-      mailTransport: createMailTransport(config.SMTP_URL!),
-      log: createLogger('silent'),
-    })
-    // the baseline: a bare Express route answering JSON, no session, no database
-    const baseline = express().get('/plain', (_req, res) => res.json({ ok: true }))
-    const servers = [app.listen(0, '127.0.0.1'), baseline.listen(0, '127.0.0.1')]
-    await new Promise((r) => setTimeout(r, 200))
-    const [appPort, basePort] = servers.map((s) => (s.address() as { port: number }).port)
-
-    // sign in once and reuse the session cookie
-    const csrfRes = await fetch(`http://127.0.0.1:${appPort}/api/auth/csrf`)
-    let cookie = csrfRes.headers.get('set-cookie')!.split(';')[0]!
-    const { token } = (await csrfRes.json()) as { token: string }
-    const login = await fetch(`http://127.0.0.1:${appPort}/api/auth/login`, {
-      method: 'POST',
-      headers: { 'content-type': 'application/json', 'x-csrf-token': token, cookie },
-      body: JSON.stringify({ email: 'lead@heardwell.test', password: DEMO_PASSWORD }),
-    })
-    cookie = login.headers.get('set-cookie')!.split(';')[0]!
+    const { appPort, basePort, dataSource, studyId } = env
+    const { cookie } = await env.signIn('lead@heardwell.test')
 
     // 5,000 participants with contact records, to list page by page as a coordinator's table does
     await dataSource.query(
@@ -111,24 +59,20 @@ export async function runApiThroughput(): Promise<void> {
         WHERE p.study_id = $1 AND NOT EXISTS (SELECT 1 FROM participant_contacts c WHERE c.participant_id = p.id)`,
       [studyId],
     )
-    const base = await measure(basePort!, '/plain', {})
+    const base = await measure(basePort, '/plain', {})
     const pageSize = 100
     const pages = Array.from({ length: 5000 / pageSize }, (_, i) => `/api/studies/${studyId}/participants?page=${i + 1}&pageSize=${pageSize}&sortBy=pseudonym`)
     const rows: [string, number][] = [
-      ['GET /api/auth/me (session + account)', await measure(appPort!, '/api/auth/me', { cookie })],
-      ['GET /api/studies/:id/members (guard + query)', await measure(appPort!, `/api/studies/${studyId}/members`, { cookie })],
-      [`participants list, 5,000 in pages of ${pageSize}`, await measure(appPort!, pages, { cookie })],
+      ['GET /api/auth/me (session + account)', await measure(appPort, '/api/auth/me', { cookie })],
+      ['GET /api/studies/:id/members (guard + query)', await measure(appPort, `/api/studies/${studyId}/members`, { cookie })],
+      [`participants list, 5,000 in pages of ${pageSize}`, await measure(appPort, pages, { cookie })],
     ]
     console.log(`\n${REQUESTS} requests each, ${CONCURRENCY} at a time, loopback; the participants list cycles through all 5,000 rows\n`)
     console.log(`${'route'.padEnd(48)} ${'req/s'.padStart(8)}  ${'baseline req/s'.padStart(14)}  ratio`)
     for (const [name, rate] of rows) {
       console.log(`${name.padEnd(48)} ${rate.toFixed(0).padStart(8)}  ${base.toFixed(0).padStart(14)}  ${(rate / base).toFixed(3)}`)
     }
-    for (const s of servers) s.close()
-    await boss.stop({ graceful: false, wait: true })
-    await dataSource.destroy()
   } finally {
-    stopCluster({ bin, dataDir: path.join(workDir, 'pg') })
-    rmSync(workDir, { recursive: true, force: true })
+    await env.close()
   }
 }

@@ -1,11 +1,15 @@
 /**
  * `npm run bench`: every benchmark, each printing a ratio against a baseline measured in the same run.
- * `npm run bench -- scan` or `-- api` runs one.
+ * `npm run bench -- scan`, `-- api`, `-- apply-code` or `-- coding-view` runs one.
  */
 import { runApiThroughput } from './api-throughput.js'
+import { runApplyCode } from './apply-code.js'
+import { runCodingView } from './coding-view.js'
 import { runTranscriptScan } from './transcript-scan.js'
 
 const only = process.argv[2]
 if (!only || only === 'scan') await runTranscriptScan()
 if (!only || only === 'api') await runApiThroughput()
+if (!only || only === 'apply-code') await runApplyCode()
+if (!only || only === 'coding-view') await runCodingView()
 process.exit(0)

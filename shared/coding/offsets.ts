@@ -7,13 +7,15 @@
  */
 
 const WINDOW = 64
+/** one segmenter for every call: creating an Intl.Segmenter is costly */
+const graphemes = new Intl.Segmenter(undefined, { granularity: 'grapheme' })
 
 /** True when `index` falls between two grapheme clusters of `text` (0 and text.length always do). */
 export function isGraphemeBoundary(text: string, index: number): boolean {
   if (index <= 0 || index >= text.length) return index === 0 || index === text.length
   const from = Math.max(0, index - WINDOW)
   const to = Math.min(text.length, index + WINDOW)
-  const segmenter = new Intl.Segmenter(undefined, { granularity: 'grapheme' })
+  const segmenter = graphemes
   for (const { index: at } of segmenter.segment(text.slice(from, to))) {
     if (from + at === index) return true
     if (from + at > index) return false
@@ -27,7 +29,7 @@ export function snapToGrapheme(text: string, index: number, side: 'start' | 'end
   if (isGraphemeBoundary(text, clamped)) return clamped
   const from = Math.max(0, clamped - WINDOW)
   const to = Math.min(text.length, clamped + WINDOW)
-  const segmenter = new Intl.Segmenter(undefined, { granularity: 'grapheme' })
+  const segmenter = graphemes
   let before = from
   for (const { index: at, segment } of segmenter.segment(text.slice(from, to))) {
     const start = from + at

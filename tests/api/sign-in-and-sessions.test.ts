@@ -101,6 +101,17 @@ describe('sign-in', () => {
     expect((await client.get('/api/auth/me')).status).toBe(401)
   })
 
+  it('moves the idle expiry at most once a minute per session, not on every request', async () => {
+    const client = new Client(ctx.app)
+    await client.signIn(team.users.lead.email, TEST_PASSWORD)
+    const expiry = async () => (await ctx.dataSource.query(`SELECT expire FROM session WHERE sess->'passport'->>'user' = $1 ORDER BY expire DESC LIMIT 1`, [team.users.lead.id]))[0].expire.getTime()
+    expect((await client.get('/api/auth/me')).status).toBe(200) // the first request moves it
+    const moved = await expiry()
+    await new Promise((r) => setTimeout(r, 1100))
+    expect((await client.get('/api/auth/me')).status).toBe(200)
+    expect(await expiry()).toBe(moved) // within the minute: no write
+  })
+
   it('ends a session past the absolute limit however active it is', async () => {
     const client = new Client(ctx.app)
     await client.signIn(team.users.partner.email, TEST_PASSWORD)

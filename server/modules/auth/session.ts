@@ -18,8 +18,32 @@ export interface SessionSettings {
  * https. `rolling` gives the idle timeout (the row's expiry moves with each request); the absolute
  * limit is checked by `enforceAbsoluteLimit`, since express-session has none (expressjs/session#557).
  */
+/**
+ * Moving a session's expiry is a database write on every request; doing it at most once a minute per
+ * session (per app instance) keeps the idle timeout within a minute of exact for a fraction of the
+ * writes. Changed sessions are still saved at once (that is `set`, not `touch`).
+ */
+export const TOUCH_INTERVAL_MS = 60_000
+
+function throttledStore(PgStore: ReturnType<typeof connectPgSimple>) {
+  return class ThrottledTouchStore extends PgStore {
+    private readonly touchedAt = new Map<string, number>()
+
+    override touch(sid: string, sess: session.SessionData, callback?: () => void): void {
+      const now = Date.now()
+      const last = this.touchedAt.get(sid)
+      if (last !== undefined && now - last < TOUCH_INTERVAL_MS) return callback?.()
+      if (this.touchedAt.size > 50_000) {
+        for (const [key, at] of this.touchedAt) if (now - at >= TOUCH_INTERVAL_MS) this.touchedAt.delete(key)
+      }
+      this.touchedAt.set(sid, now)
+      super.touch(sid, sess, callback)
+    }
+  }
+}
+
 export function createSessionMiddleware(pool: Pool, settings: SessionSettings) {
-  const PgStore = connectPgSimple(session)
+  const PgStore = throttledStore(connectPgSimple(session))
   return session({
     name: settings.secure ? '__Host-heardwell.sid' : 'heardwell.sid',
     secret: settings.secret,

@@ -3,7 +3,7 @@ import { checkRange } from '../../../shared/coding/offsets.js'
 import type { StudyRole } from '../../../shared/permissions.js'
 import type { CodeExcerpts, CodingSettings, Excerpt as ExcerptDto, ExcerptCreate, ExcerptList, ExcerptUpdate } from '../../../shared/schemas/coding.js'
 import type { AuditActor, AuditService } from '../audit/audit.service.js'
-import { ForbiddenError, NotFoundError, UnprocessableError } from '../../lib/errors.js'
+import { ConflictError, ForbiddenError, NotFoundError, UnprocessableError } from '../../lib/errors.js'
 import { Study } from '../studies/study.entity.js'
 import type { TranscriptService } from '../transcripts/transcript.service.js'
 import { User } from '../users/user.entity.js'
@@ -81,14 +81,35 @@ export class ExcerptService {
   async create(studyId: string, transcriptId: string, input: ExcerptCreate, me: Express.User): Promise<ExcerptDto> {
     const { row, text } = await this.transcripts.codableText(studyId, transcriptId)
     this.checkRange(text, input.start, input.end, input.text)
-    return this.dataSource.transaction(async (manager) => {
-      await this.checkCodes(manager, studyId, input.codeIds)
-      const saved = await manager.save(
-        manager.create(Excerpt, { studyId, transcriptId, participantId: row.participantId, coderId: me.id, start: input.start, end: input.end, text: text.slice(input.start, input.end) }),
-      )
-      await manager.insert(ExcerptCode, input.codeIds.map((codeId) => ({ excerptId: saved.id, codeId })))
-      return (await this.dtos(manager, [saved], me.name))[0]!
-    })
+    const quote = text.slice(input.start, input.end)
+    // one statement: the excerpt and its codes are written only when every code is this study's and active
+    const saved: { id: string; created_at: Date; updated_at: Date; version: number }[] = await this.dataSource.query(
+      `WITH usable AS (SELECT count(*) AS n FROM codes WHERE id = ANY($5::uuid[]) AND study_id = $1 AND status = 'active'),
+            ins AS (INSERT INTO excerpts (study_id, transcript_id, participant_id, coder_id, start_offset, end_offset, text)
+                    SELECT $1, $2, $3, $4, $6, $7, $8 FROM usable WHERE usable.n = cardinality($5::uuid[])
+                    RETURNING id, created_at, updated_at, version),
+            links AS (INSERT INTO excerpt_codes (excerpt_id, code_id) SELECT ins.id, c FROM ins, unnest($5::uuid[]) AS c)
+       SELECT * FROM ins`,
+      [studyId, transcriptId, row.participantId, me.id, input.codeIds, input.start, input.end, quote],
+    )
+    if (!saved.length) {
+      await this.checkCodes(this.dataSource.manager, studyId, input.codeIds)
+      throw new ConflictError('A code changed while you were applying it. Reload the codebook and try again.')
+    }
+    const [e] = saved
+    return {
+      id: e!.id,
+      transcriptId,
+      coderId: me.id,
+      coderName: me.name,
+      start: input.start,
+      end: input.end,
+      text: quote,
+      codeIds: input.codeIds,
+      version: e!.version,
+      createdAt: new Date(e!.created_at).toISOString(),
+      updatedAt: new Date(e!.updated_at).toISOString(),
+    }
   }
 
   async update(studyId: string, excerptId: string, input: ExcerptUpdate, me: Express.User): Promise<ExcerptDto> {
