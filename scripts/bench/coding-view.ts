@@ -62,9 +62,8 @@ export async function runCodingView(): Promise<void> {
     const id = transcript!.id
     await dataSource.query(
       `INSERT INTO transcript_turns (transcript_id, position, speaker, start_ms, start_offset, end_offset, text)
-       SELECT $1, t.ord - 1, t.speaker, t.start_ms, t.s, t.e, substr($3, t.s + 1, t.e - t.s)
-         FROM jsonb_to_recordset($2::jsonb) WITH ORDINALITY AS t(speaker text, start_ms int, s int, e int, ord int)`,
-      [id, JSON.stringify(turns.map((t) => ({ speaker: t.speaker, start_ms: t.startMs, s: t.start, e: t.end }))), text],
+       SELECT $1, t.pos, t.speaker, t.start_ms, t.s, t.e, t.body FROM jsonb_to_recordset($2::jsonb) AS t(pos int, speaker text, start_ms int, s int, e int, body text)`,
+      [id, JSON.stringify(turns.map((t, pos) => ({ pos, speaker: t.speaker, start_ms: t.startMs, s: t.start, e: t.end, body: text.slice(t.start, t.end) })))],
     )
     const [coder]: { id: string }[] = await dataSource.query(`SELECT id FROM users WHERE email = 'coder1@heardwell.test'`)
     const codes: { id: string }[] = await dataSource.query(`SELECT id FROM codes WHERE study_id = $1 AND parent_id IS NOT NULL`, [studyId])

@@ -83,3 +83,64 @@ export function useUpdateCodeMutation(studyId: MaybeRefOrGetter<string>) {
   const invalidate = useInvalidateCodebook(studyId)
   return useMutation({ mutation: ({ codeId, body }: { codeId: string; body: CodeUpdate }) => updateCode(toValue(studyId), codeId, body), onSettled: invalidate })
 }
+
+export function useSnapshotQuery(studyId: MaybeRefOrGetter<string>, snapshotId: MaybeRefOrGetter<string | null>) {
+  return useQuery({
+    key: () => codebookKeys.snapshot(toValue(studyId), toValue(snapshotId) ?? ''),
+    query: () => fetchSnapshot(toValue(studyId), toValue(snapshotId)!),
+    enabled: () => Boolean(toValue(studyId) && toValue(snapshotId)),
+  })
+}
+
+/** Moves, merges and splits answer with the whole codebook: show it at once, then refresh what hangs off it. */
+function useCodebookAnswer(studyId: MaybeRefOrGetter<string>) {
+  const queryCache = useQueryCache()
+  return (codes: Code[]) => queryCache.setQueryData(codebookKeys.codes(toValue(studyId)), codes)
+}
+
+export function useMoveCodeMutation(studyId: MaybeRefOrGetter<string>) {
+  const invalidate = useInvalidateCodebook(studyId)
+  const show = useCodebookAnswer(studyId)
+  return useMutation({
+    mutation: ({ codeId, body }: { codeId: string; body: CodeMove }) => moveCode(toValue(studyId), codeId, body),
+    onSuccess: show,
+    onSettled: invalidate,
+  })
+}
+
+export function useMergeCodeMutation(studyId: MaybeRefOrGetter<string>) {
+  const invalidate = useInvalidateCodebook(studyId)
+  const show = useCodebookAnswer(studyId)
+  return useMutation({
+    mutation: ({ codeId, body }: { codeId: string; body: CodeMerge }) => mergeCode(toValue(studyId), codeId, body),
+    onSuccess: show,
+    onSettled: invalidate,
+  })
+}
+
+export function useSplitCodeMutation(studyId: MaybeRefOrGetter<string>) {
+  const invalidate = useInvalidateCodebook(studyId)
+  const show = useCodebookAnswer(studyId)
+  return useMutation({
+    mutation: ({ codeId, body }: { codeId: string; body: CodeSplit }) => splitCode(toValue(studyId), codeId, body),
+    onSuccess: show,
+    onSettled: invalidate,
+  })
+}
+
+/** A dry run changes nothing, so only a real import refreshes the codebook. */
+export function useImportCodebookMutation(studyId: MaybeRefOrGetter<string>) {
+  const invalidate = useInvalidateCodebook(studyId)
+  return useMutation({
+    mutation: (body: CodebookImport) => importCodebook(toValue(studyId), body),
+    onSettled: (_data, _error, body) => (body.dryRun ? undefined : invalidate()),
+  })
+}
+
+export function useSaveSnapshotMutation(studyId: MaybeRefOrGetter<string>) {
+  const queryCache = useQueryCache()
+  return useMutation({
+    mutation: (name: string) => saveSnapshot(toValue(studyId), name),
+    onSettled: () => queryCache.invalidateQueries({ key: codebookKeys.snapshots(toValue(studyId)) }),
+  })
+}

@@ -78,6 +78,10 @@ import {
   mdiCallSplit,
   mdiArchiveOutline,
   mdiFileImportOutline,
+  mdiFormatIndentIncrease,
+  mdiFormatIndentDecrease,
+  mdiArchiveArrowUpOutline,
+  mdiCompare,
 } from '@mdi/js'
 import type { IconAliases } from 'vuetify'
 import { aliases as mdiAliases } from 'vuetify/iconsets/mdi-svg'
@@ -166,6 +170,10 @@ const heardwellIcons = {
   split: mdiCallSplit,
   retire: mdiArchiveOutline,
   import: mdiFileImportOutline,
+  indent: mdiFormatIndentIncrease,
+  outdent: mdiFormatIndentDecrease,
+  reactivate: mdiArchiveArrowUpOutline,
+  compare: mdiCompare,
 }
 
 export const iconAliases: IconAliases = { ...mdiAliases, ...heardwellIcons } as IconAliases
