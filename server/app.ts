@@ -28,7 +28,8 @@ import { exportsRouter } from './modules/recruitment/exports.router.js'
 import { interviewsRouter } from './modules/interviews/interviews.router.js'
 import { transcriptsRouter } from './modules/transcripts/transcripts.router.js'
 import { codesRouter } from './modules/coding/codes.router.js'
-import { codingAnalysisRouter } from './modules/coding/coding-analysis.router.js'
+import { codeMatricesRouter } from './modules/coding/code-matrices.router.js'
+import { searchRouter } from './modules/coding/search.router.js'
 import { excerptsRouter } from './modules/coding/excerpts.router.js'
 import { memosRouter } from './modules/coding/memos.router.js'
 import { participantsRouter } from './modules/recruitment/participants.router.js'
@@ -106,7 +107,8 @@ export function createApp(deps: AppDeps) {
   api.use(codesRouter({ authorize, codes: services.codes, structure: services.codeStructure, transfer: services.codebookTransfer }))
   api.use(excerptsRouter({ authorize, excerpts: services.excerpts }))
   api.use(memosRouter({ authorize, memos: services.memos }))
-  api.use(codingAnalysisRouter({ authorize, search: services.codingSearch, matrices: services.codeMatrices, excerpts: services.excerpts }))
+  api.use(searchRouter({ authorize, search: services.codingSearch, excerpts: services.excerpts }))
+  api.use(codeMatricesRouter({ authorize, matrices: services.codeMatrices, excerpts: services.excerpts }))
   api.use(publicConsentRouter({ authorize, consent, withdrawals }))
   api.use(publicRouter({ authorize, dataSource, pool, participants, questionnaires, perHour: config.PUBLIC_ENQUIRIES_PER_HOUR }))
   if (deps.mailboxDir && config.NODE_ENV !== 'production') api.use(mailboxRouter({ authorize, directory: deps.mailboxDir }))

@@ -59,8 +59,30 @@ export class ExcerptService {
         WHERE e.transcript_id = $1 AND e.study_id = $2 ${comparisonAllowed ? '' : 'AND e.coder_id = $3'} GROUP BY u.id, u.name ORDER BY u.name`,
       comparisonAllowed ? [transcriptId, studyId] : [transcriptId, studyId, me.id],
     )
-    const rows = await this.dataSource.getRepository(Excerpt).find({ where: { studyId, transcriptId, coderId: whose }, order: { start: 'ASC', end: 'ASC' } })
-    return { excerpts: await this.dtos(this.dataSource.manager, rows), coders: coders.map((c) => ({ id: c.id, name: c.name, excerptCount: c.n })), comparisonAllowed }
+    // one query for the whole list (a long transcript may carry thousands of excerpts)
+    const rows: { id: string; coder_id: string; coder_name: string; start_offset: number; end_offset: number; text: string; code_ids: string[] | null; version: number; created_at: Date; updated_at: Date }[] =
+      await this.dataSource.query(
+        `SELECT e.id, e.coder_id, u.name AS coder_name, e.start_offset, e.end_offset, e.text, e.version, e.created_at, e.updated_at,
+                (SELECT array_agg(x.code_id ORDER BY x.code_id) FROM excerpt_codes x WHERE x.excerpt_id = e.id) AS code_ids
+           FROM excerpts e JOIN users u ON u.id = e.coder_id
+          WHERE e.study_id = $1 AND e.transcript_id = $2 AND e.coder_id = $3
+          ORDER BY e.start_offset, e.end_offset, e.created_at`,
+        [studyId, transcriptId, whose],
+      )
+    const excerpts = rows.map((r) => ({
+      id: r.id,
+      transcriptId,
+      coderId: r.coder_id,
+      coderName: r.coder_name,
+      start: r.start_offset,
+      end: r.end_offset,
+      text: r.text,
+      codeIds: r.code_ids ?? [],
+      version: r.version,
+      createdAt: new Date(r.created_at).toISOString(),
+      updatedAt: new Date(r.updated_at).toISOString(),
+    }))
+    return { excerpts, coders: coders.map((c) => ({ id: c.id, name: c.name, excerptCount: c.n })), comparisonAllowed }
   }
 
   /** Every excerpt carrying one code, across the study (for splitting a code, choosing its example). */

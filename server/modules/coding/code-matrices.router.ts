@@ -1,23 +1,18 @@
 import { Router } from 'express'
 import { idParams } from '../../../shared/schemas/common.js'
-import { matrixQuery, searchQuery } from '../../../shared/schemas/coding.js'
+import { matrixQuery } from '../../../shared/schemas/coding.js'
 import { sendCsv } from '../../lib/csv.js'
 import type { Authorize } from '../../middleware/authorize.js'
 import { validate } from '../../middleware/validate.js'
 import type { CodeMatrixService } from './code-matrix.service.js'
-import type { CodingSearchService } from './coding-search.service.js'
 import type { ExcerptService } from './excerpt.service.js'
 
-/** Reading across the coding: full-text search and the code matrices (with CSV downloads). */
-export function codingAnalysisRouter(deps: { authorize: Authorize; search: CodingSearchService; matrices: CodeMatrixService; excerpts: ExcerptService }) {
-  const { authorize, search, matrices, excerpts } = deps
+/** The code matrices (codes × participants, co-occurrence), as JSON and CSV. */
+export function codeMatricesRouter(deps: { authorize: Authorize; matrices: CodeMatrixService; excerpts: ExcerptService }) {
+  const { authorize, matrices, excerpts } = deps
   const router = Router()
   const read = [authorize('study:coding.read'), validate({ params: idParams, query: matrixQuery })]
 
-  router.get('/studies/:studyId/search', authorize('study:coding.read'), validate({ params: idParams, query: searchQuery }), async (req, res) => {
-    if (req.valid.query.coderId) await excerpts.assertMayView(req.valid.params.studyId, req.user!, req.studyRole, req.valid.query.coderId)
-    res.json(await search.search(req.valid.params.studyId, req.valid.query, req.user!, req.studyRole))
-  })
   router.get('/studies/:studyId/matrices/code-participant', ...read, async (req, res) => {
     await excerpts.assertMayView(req.valid.params.studyId, req.user!, req.studyRole, req.valid.query.coderId)
     res.json(await matrices.codeByParticipant(req.valid.params.studyId, req.valid.query.coderId))
