@@ -25,7 +25,7 @@ function percentile(sorted: number[], p: number): number {
   return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!
 }
 
-async function drive(port: number, path: string, headersFor: (client: number) => Record<string, string>, body: () => string, seconds = SECONDS): Promise<Run> {
+async function drive(port: number, path: string, headersFor: (client: number) => Record<string, string>, body: (() => string) | null, seconds = SECONDS): Promise<Run> {
   const times: number[] = []
   let clients = 0
   const result = await new Promise<autocannon.Result>((resolve, reject) => {
@@ -34,7 +34,7 @@ async function drive(port: number, path: string, headersFor: (client: number) =>
         url: `http://127.0.0.1:${port}`,
         connections: CODERS,
         duration: seconds,
-        requests: [{ method: 'POST', path, setupRequest: (req) => ({ ...req, body: body() }) }],
+        requests: [body ? { method: 'POST', path, setupRequest: (req) => ({ ...req, body: body() }) } : { method: 'GET', path }],
         setupClient: (client) => {
           client.setHeaders({ 'content-type': 'application/json', ...headersFor(clients++ % CODERS) })
         },
@@ -82,10 +82,11 @@ export async function runApplyCode(): Promise<void> {
     await drive(env.appPort, `/api/studies/${studyId}/transcripts/${transcript!.id}/excerpts`, (i) => ({ cookie: sessions[i]!.cookie, 'x-csrf-token': sessions[i]!.csrf }), body, 1)
     const base = await drive(env.basePort, '/plain', () => ({}), body)
     const app = await drive(env.appPort, `/api/studies/${studyId}/transcripts/${transcript!.id}/excerpts`, (i) => ({ cookie: sessions[i]!.cookie, 'x-csrf-token': sessions[i]!.csrf }), body)
+    const me = await drive(env.appPort, '/api/auth/me', (i) => ({ cookie: sessions[i]!.cookie }), null)
     const stored: { n: number }[] = await dataSource.query(`SELECT count(*)::int AS n FROM excerpts WHERE transcript_id = $1`, [transcript!.id])
     console.log(`\nApplying a code: ${CODERS} coders (own sessions) for ${SECONDS} s each run, loopback; target p95 under 50 ms\n`)
     console.log(`${'endpoint'.padEnd(44)} ${'req/s'.padStart(8)} ${'p50 ms'.padStart(7)} ${'p95 ms'.padStart(7)} ${'p99 ms'.padStart(7)} ${'errors'.padStart(7)}`)
-    for (const [name, run] of [['POST excerpts (session, guard, checks, insert)', app], ['bare Express POST (baseline)', base]] as const) {
+    for (const [name, run] of [['POST excerpts (session, guard, checks, insert)', app], ['GET /api/auth/me (session and account only)', me], ['bare Express POST (baseline)', base]] as const) {
       console.log(`${name.padEnd(44)} ${run.perSecond.toFixed(0).padStart(8)} ${run.p50.toFixed(0).padStart(7)} ${run.p95.toFixed(0).padStart(7)} ${run.p99.toFixed(0).padStart(7)} ${String(run.errors).padStart(7)}`)
     }
     console.log(`throughput ratio (app / baseline): ${(app.perSecond / base.perSecond).toFixed(3)}; excerpts stored: ${stored[0]!.n}`)
