@@ -29,6 +29,7 @@ export interface BenchEnvironment {
   dataSource: DataSource
   storage: ObjectStore
   studyId: string
+  databaseUrl: string
   /** signs in and returns the session cookie and the CSRF token for writes */
   signIn(email: string, password?: string): Promise<{ cookie: string; csrf: string }>
   close(): Promise<void>
@@ -95,7 +96,7 @@ export async function startBenchEnvironment(options: { clientDist?: string } = {
       if (login.status !== 200) throw new Error(`sign-in of ${email}: ${login.status}`)
       return { cookie: login.headers.get('set-cookie')!.split(';')[0]!, csrf: login.headers.get('x-csrf-token') ?? token }
     }
-    return { appPort, basePort, dataSource, storage, studyId, signIn, close }
+    return { appPort, basePort, dataSource, storage, studyId, databaseUrl: url, signIn, close }
   } catch (error) {
     await close()
     throw error

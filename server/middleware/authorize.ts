@@ -2,7 +2,6 @@ import type { NextFunction, Request, RequestHandler, Response } from 'express'
 import type { DataSource } from 'typeorm'
 import { decide, type Access, type StudyRole } from '../../shared/permissions.js'
 import { ForbiddenError, UnauthenticatedError } from '../lib/errors.js'
-import { Membership } from '../modules/studies/membership.entity.js'
 
 const UUID = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/i
 
@@ -22,10 +21,8 @@ export function createAuthorize(dataSource: DataSource) {
       if (user && access.startsWith('study:')) {
         const studyId = String(req.params.studyId ?? '')
         if (UUID.test(studyId)) {
-          const membership = await dataSource.getRepository(Membership).findOne({
-            where: { studyId, userId: user.id },
-            select: { id: true, role: true },
-          })
+          // every study-scoped request: one plain query
+          const [membership]: { role: StudyRole }[] = await dataSource.query('SELECT role FROM memberships WHERE study_id = $1 AND user_id = $2', [studyId, user.id])
           role = membership?.role ?? null
         }
       }

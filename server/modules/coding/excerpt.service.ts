@@ -101,7 +101,7 @@ export class ExcerptService {
   }
 
   async create(studyId: string, transcriptId: string, input: ExcerptCreate, me: Express.User): Promise<ExcerptDto> {
-    const { row, text } = await this.transcripts.codableText(studyId, transcriptId)
+    const { participantId, text } = await this.transcripts.codableText(studyId, transcriptId)
     this.checkRange(text, input.start, input.end, input.text)
     const quote = text.slice(input.start, input.end)
     // one statement: the excerpt and its codes are written only when every code is this study's and active
@@ -112,7 +112,7 @@ export class ExcerptService {
                     RETURNING id, created_at, updated_at, version),
             links AS (INSERT INTO excerpt_codes (excerpt_id, code_id) SELECT ins.id, c FROM ins, unnest($5::uuid[]) AS c)
        SELECT * FROM ins`,
-      [studyId, transcriptId, row.participantId, me.id, input.codeIds, input.start, input.end, quote],
+      [studyId, transcriptId, participantId, me.id, input.codeIds, input.start, input.end, quote],
     )
     if (!saved.length) {
       await this.checkCodes(this.dataSource.manager, studyId, input.codeIds)

@@ -221,7 +221,8 @@ export class TranscriptService {
 
   /** The approved, de-identified text, for anyone who may read it and only while consent allows coding. */
   async read(studyId: string, transcriptId: string): Promise<TranscriptReading> {
-    const { row, text } = await this.codableText(studyId, transcriptId)
+    const { text } = await this.codableText(studyId, transcriptId)
+    const row = await this.dataSource.getRepository(Transcript).findOneByOrFail({ id: transcriptId })
     const [summary] = await this.summaries([row])
     const turns = await this.dataSource.getRepository(TranscriptTurn).find({ where: { transcriptId }, order: { position: 'ASC' } })
     return { ...summary!, text, sha256: row.sha256!, turns: turns.map((t) => ({ speaker: t.speaker, startMs: t.startMs, start: t.start, end: t.end })) }
@@ -232,16 +233,20 @@ export class TranscriptService {
    * Approved text never changes (a correction is a new version), so it is kept in a small cache keyed
    * by its SHA-256: coding checks every excerpt against it.
    */
-  async codableText(studyId: string, transcriptId: string): Promise<{ row: Transcript; text: string }> {
-    const row = await this.dataSource.getRepository(Transcript).findOneBy({ id: transcriptId, studyId, status: 'approved' })
-    if (!row || !row.objectKey || !(await this.codable(studyId, [row.participantId])).has(row.participantId)) throw new NotFoundError('approved transcript')
-    let text = this.approvedTexts.get(row.sha256!)
+  async codableText(studyId: string, transcriptId: string): Promise<{ participantId: string; text: string }> {
+    // one plain query: coding asks for this on every excerpt it writes
+    const [row]: { participant_id: string; object_key: string; sha256: string }[] = await this.dataSource.query(
+      `SELECT participant_id, object_key, sha256 FROM transcripts WHERE id = $1 AND study_id = $2 AND status = 'approved' AND object_key IS NOT NULL`,
+      [transcriptId, studyId],
+    )
+    if (!row || !(await this.codable(studyId, [row.participant_id])).has(row.participant_id)) throw new NotFoundError('approved transcript')
+    let text = this.approvedTexts.get(row.sha256)
     if (text === undefined) {
-      text = (await this.storage.get(row.objectKey, row.sha256!)).toString('utf8')
+      text = (await this.storage.get(row.object_key, row.sha256)).toString('utf8')
       if (this.approvedTexts.size >= 32) this.approvedTexts.delete(this.approvedTexts.keys().next().value!)
-      this.approvedTexts.set(row.sha256!, text)
+      this.approvedTexts.set(row.sha256, text)
     }
-    return { row, text }
+    return { participantId: row.participant_id, text }
   }
 
   async terms(studyId: string): Promise<DeidentificationTerms> {
