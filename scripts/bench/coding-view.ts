@@ -108,6 +108,12 @@ export async function runCodingView(): Promise<void> {
     const html = `<!doctype html><meta charset="utf-8"><body style="font-family:serif;max-width:70ch">${turns.map((t) => `<p><b>${t.speaker}</b> ${text.slice(t.start, t.end)}</p>`).join('')}`
     for (let run = 0; run < RUNS; run++) {
       const page = await context.newPage()
+      const cdp = process.env.BENCH_DEBUG && run === RUNS - 1 ? await context.newCDPSession(page) : null
+      if (cdp) {
+        await cdp.send('Profiler.enable')
+        await cdp.send('Profiler.setSamplingInterval', { interval: 200 })
+        await cdp.send('Profiler.start')
+      }
       await page.goto(url)
       await page.waitForFunction(() => performance.getEntriesByName('coding:interactive').length > 0, undefined, { timeout: 60_000 })
       const marks = await page.evaluate(() => ({
@@ -115,6 +121,11 @@ export async function runCodingView(): Promise<void> {
         ready: performance.getEntriesByName('coding:interactive')[0]?.startTime ?? NaN,
         marks: document.querySelectorAll('[data-testid="coding-turn"]').length,
       }))
+      if (cdp) {
+        const { profile } = await cdp.send('Profiler.stop')
+        const { writeFileSync } = await import('node:fs')
+        writeFileSync('/tmp/coding-view.cpuprofile', JSON.stringify(profile))
+      }
       if (process.env.BENCH_DEBUG && run === RUNS - 1) {
         const entries = await page.evaluate(() => performance.getEntriesByType('resource').map((e) => `${e.name.replace(/^https?:\/\/[^/]+/, '').slice(0, 70)} ${e.startTime.toFixed(0)}→${(e as PerformanceResourceTiming).responseEnd.toFixed(0)}`))
         console.log(entries.join('\n'))

@@ -15,6 +15,11 @@ export async function accessGuard(
   to: Pick<RouteLocationNormalized, 'meta' | 'params' | 'query' | 'fullPath'> & { name?: RouteLocationNormalized['name'] | null },
 ): Promise<true | RouteLocationRaw> {
   const session = useSessionStore()
+  // fetch the page's code while the session is checked, not after
+  for (const record of (to as Partial<RouteLocationNormalized>).matched ?? []) {
+    const view = record.components?.default
+    if (typeof view === 'function') void (view as () => Promise<unknown>)()?.catch?.(() => {})
+  }
   await session.ensureLoaded()
 
   if (to.meta.public) {
