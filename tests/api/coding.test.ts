@@ -15,7 +15,6 @@ let lead: Client
 let coordinator: Client
 let coder: Client
 let coder2: Client
-let coder2Id: string
 let transcriptId: string
 let participantId: string
 let text: string
@@ -36,7 +35,6 @@ beforeAll(async () => {
   coder = new Client(ctx.app)
   coder2 = new Client(ctx.app)
   const second = await makeUser(ctx.dataSource, { email: uniqueEmail('coder2'), name: 'Second Coder' })
-  coder2Id = second.id
   await addMember(ctx.dataSource, team.study, second, 'coder')
   await lead.signIn(team.users.lead.email, TEST_PASSWORD)
   await coordinator.signIn(team.users.coordinator.email, TEST_PASSWORD)

@@ -1,6 +1,5 @@
 import passport from 'passport'
 import type { DataSource } from 'typeorm'
-import { User } from '../users/user.entity.js'
 
 /**
  * Passport keeps only the user id in the session and reloads the account on every request, so a
