@@ -28,6 +28,7 @@ import { exportsRouter } from './modules/recruitment/exports.router.js'
 import { interviewsRouter } from './modules/interviews/interviews.router.js'
 import { transcriptsRouter } from './modules/transcripts/transcripts.router.js'
 import { codesRouter } from './modules/coding/codes.router.js'
+import { analysisRouter } from './modules/analysis/analysis.router.js'
 import { codeMatricesRouter } from './modules/coding/code-matrices.router.js'
 import { searchRouter } from './modules/coding/search.router.js'
 import { excerptsRouter } from './modules/coding/excerpts.router.js'
@@ -109,6 +110,7 @@ export function createApp(deps: AppDeps) {
   api.use(memosRouter({ authorize, memos: services.memos }))
   api.use(searchRouter({ authorize, search: services.codingSearch, excerpts: services.excerpts }))
   api.use(codeMatricesRouter({ authorize, matrices: services.codeMatrices, excerpts: services.excerpts }))
+  api.use(analysisRouter({ authorize, agreement: services.agreement, saturation: services.saturation, excerpts: services.excerpts }))
   api.use(publicConsentRouter({ authorize, consent, withdrawals }))
   api.use(publicRouter({ authorize, dataSource, pool, participants, questionnaires, perHour: config.PUBLIC_ENQUIRIES_PER_HOUR }))
   if (deps.mailboxDir && config.NODE_ENV !== 'production') api.use(mailboxRouter({ authorize, directory: deps.mailboxDir }))

@@ -34,6 +34,8 @@ import { CodingScope } from './modules/coding/coding-scope.js'
 import { CodingSearchService } from './modules/coding/coding-search.service.js'
 import { ExcerptService } from './modules/coding/excerpt.service.js'
 import { MemoService } from './modules/coding/memo.service.js'
+import { AgreementService } from './modules/analysis/agreement.service.js'
+import { SaturationService } from './modules/analysis/saturation.service.js'
 
 export interface AppDeps {
   config: Config
@@ -89,6 +91,8 @@ export function buildServices(deps: AppDeps) {
   const memos = new MemoService(dataSource, codingScope)
   const codingSearch = new CodingSearchService(dataSource, codingScope)
   const codeMatrices = new CodeMatrixService(dataSource, codingScope)
-  return { codingScope, codes, codeStructure, codebookTransfer, excerpts, memos, codingSearch, codeMatrices, transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
+  const agreement = new AgreementService(dataSource, transcripts, codingScope, audit)
+  const saturation = new SaturationService(dataSource, codingScope)
+  return { agreement, saturation, codingScope, codes, codeStructure, codebookTransfer, excerpts, memos, codingSearch, codeMatrices, transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
 }
 export type Services = ReturnType<typeof buildServices>

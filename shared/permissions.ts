@@ -62,6 +62,9 @@ export const STUDY_ACTIONS = {
   'coding.settings': { roles: ['lead'], siteAdmin: false, description: 'decide whether coders may see each other’s coding' },
   'memos.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'read and search memos' },
   'memos.write': { roles: ['lead', 'coder'], siteAdmin: false, description: 'write memos and change or remove your own' },
+  'agreement.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'see inter-coder agreement and where coders differ (coders only when the study allows comparison)' },
+  'saturation.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'see new codes per interview and the saturation assessment' },
+  'analysis.settings': { roles: ['lead'], siteAdmin: false, description: 'switch agreement on or off for the study and choose its unit' },
   'anonymisationLog.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'read the anonymisation log (identifiable)' },
 } as const satisfies Record<string, Rule>
 export type StudyAction = keyof typeof STUDY_ACTIONS

@@ -57,8 +57,8 @@ const ANSWER_CODES: string[][][] = [
 /** The second coder's readings: a few codes are read differently, most the same. */
 function secondCoderCodes(labels: string[], transcript: number, question: number): string[] {
   return labels.flatMap((label) => {
-    if (label === 'Anger and guilt' && transcript % 2 === 0) return ['Losing myself']
-    if (label === 'Night-time worry' && transcript % 3 !== 0) return []
+    if (label === 'Anger and guilt' && transcript % 3 !== 0) return ['Losing myself']
+    if (label === 'Night-time worry' && transcript % 2 === 0) return []
     if (label === 'One person to call' && question === 5) return ['Plain-language information']
     if (label === 'Waiting on the day') return ['Waiting on the day', 'Rushed discharge']
     return [label]

@@ -70,4 +70,12 @@ export class Study extends BaseEntity {
   /** coding: coders may show another coder's coding beside their own */
   @Column({ type: 'boolean', name: 'coder_comparison', default: false })
   coderComparison: boolean
+
+  /** analysis: whether inter-coder agreement is computed (teams doing reflexive analysis switch it off) */
+  @Column({ type: 'boolean', name: 'agreement_enabled', default: true })
+  agreementEnabled: boolean
+
+  /** analysis: the unit agreement compares, speaker turns or sentences */
+  @Column({ type: 'varchar', length: 10, name: 'agreement_unit', default: 'turn' })
+  agreementUnit: 'turn' | 'sentence'
 }
