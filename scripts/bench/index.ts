@@ -1,7 +1,8 @@
 /**
  * `npm run bench`: every benchmark, each printing a ratio against a baseline measured in the same run.
- * `npm run bench -- scan`, `-- api`, `-- apply-code` or `-- coding-view` runs one.
+ * `npm run bench -- scan`, `-- api`, `-- apply-code`, `-- coding-view` or `-- agreement` runs one.
  */
+import { runAgreement } from './agreement.js'
 import { runApiThroughput } from './api-throughput.js'
 import { runApplyCode } from './apply-code.js'
 import { runCodingView } from './coding-view.js'
@@ -12,4 +13,5 @@ if (!only || only === 'scan') await runTranscriptScan()
 if (!only || only === 'api') await runApiThroughput()
 if (!only || only === 'apply-code') await runApplyCode()
 if (!only || only === 'coding-view') await runCodingView()
+if (!only || only === 'agreement') await runAgreement()
 process.exit(0)
