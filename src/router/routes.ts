@@ -146,6 +146,18 @@ export const routes: RouteRecordRaw[] = [
     meta: { permission: 'coding.read', title: 'Code matrices' },
   },
   {
+    path: '/studies/:studyId/agreement',
+    name: 'study-agreement',
+    component: () => import('@/views/analysis/AgreementView.vue'),
+    meta: { permission: 'agreement.read', title: 'Inter-coder agreement' },
+  },
+  {
+    path: '/studies/:studyId/saturation',
+    name: 'study-saturation',
+    component: () => import('@/views/analysis/SaturationView.vue'),
+    meta: { permission: 'saturation.read', title: 'Saturation' },
+  },
+  {
     path: '/studies/:studyId/anonymisation-log',
     name: 'study-anonymisation-log',
     component: () => import('@/views/transcripts/AnonymisationLogView.vue'),
