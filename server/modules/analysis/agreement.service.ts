@@ -4,7 +4,7 @@ import type { AgreementOutcome } from '../../../shared/analysis/agreement.js'
 import { studyAgreement, unitsOf, type CodedExcerpt, type Span } from '../../../shared/analysis/study-agreement.js'
 import type { StudyRole } from '../../../shared/permissions.js'
 import type { AgreementResponse, AnalysisSettings, Coefficient } from '../../../shared/schemas/analysis.js'
-import { ForbiddenError, NotFoundError } from '../../lib/errors.js'
+import { NotFoundError } from '../../lib/errors.js'
 import type { AuditActor, AuditService } from '../audit/audit.service.js'
 import type { CodingScope } from '../coding/coding-scope.js'
 import { Study } from '../studies/study.entity.js'
@@ -44,10 +44,11 @@ export class AgreementService {
   async agreement(studyId: string, role: StudyRole | null, wanted?: string[]): Promise<AgreementResponse> {
     const study = await this.dataSource.getRepository(Study).findOne({ where: { id: studyId }, select: { id: true, agreementEnabled: true, agreementUnit: true, coderComparison: true } })
     if (!study) throw new NotFoundError('study')
-    if (role !== 'lead' && !study.coderComparison) throw new ForbiddenError('Your lead has not switched on comparison between coders, so agreement is shown to the lead only.')
     const empty = (emptyReason: string, extra: Partial<AgreementResponse> = {}): AgreementResponse => ({
       enabled: study.agreementEnabled, unit: study.agreementUnit, coders: [], availableCoders: [], transcripts: [], units: 0, overall: null, perCode: [], disagreements: [], disagreementCount: 0, emptyReason, ...extra,
     })
+    // the figures and the disagreements show other coders' coding: coders see them only when the study allows comparison
+    if (role !== 'lead' && !study.coderComparison) return empty('Your lead has not switched on comparison between coders, so agreement is shown to the lead only.')
     if (!study.agreementEnabled) return empty('Agreement is switched off for this study, as is usual for reflexive thematic analysis. The lead can switch it on.')
 
     const usable = await this.scope.usableParticipants(studyId)
