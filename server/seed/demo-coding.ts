@@ -8,7 +8,7 @@ import type { Study } from '../modules/studies/study.entity.js'
 import { INTERVIEWED, transcriptFor } from './demo-transcripts.js'
 
 /**
- * The demo codebook (six groups, eighteen codes) and two coders' coding of the invented interviews.
+ * The demo codebook (six groups, seventeen codes beneath them) and two coders' coding of the invented interviews.
  * The second coder codes fewer transcripts and reads a few codes differently on purpose, so the
  * agreement figures show some codes clearly weaker than others. Every word is invented.
  */
