@@ -29,6 +29,8 @@ import { interviewsRouter } from './modules/interviews/interviews.router.js'
 import { transcriptsRouter } from './modules/transcripts/transcripts.router.js'
 import { codesRouter } from './modules/coding/codes.router.js'
 import { analysisRouter } from './modules/analysis/analysis.router.js'
+import { reviewRoundsRouter } from './modules/themes/review-rounds.router.js'
+import { themesRouter } from './modules/themes/themes.router.js'
 import { codeMatricesRouter } from './modules/coding/code-matrices.router.js'
 import { searchRouter } from './modules/coding/search.router.js'
 import { excerptsRouter } from './modules/coding/excerpts.router.js'
@@ -110,6 +112,8 @@ export function createApp(deps: AppDeps) {
   api.use(memosRouter({ authorize, memos: services.memos }))
   api.use(searchRouter({ authorize, search: services.codingSearch, excerpts: services.excerpts }))
   api.use(codeMatricesRouter({ authorize, matrices: services.codeMatrices, excerpts: services.excerpts }))
+  api.use(themesRouter({ authorize, themes: services.themes }))
+  api.use(reviewRoundsRouter({ authorize, rounds: services.reviewRounds, partner: services.partnerReview }))
   api.use(analysisRouter({ authorize, agreement: services.agreement, saturation: services.saturation, excerpts: services.excerpts }))
   api.use(publicConsentRouter({ authorize, consent, withdrawals }))
   api.use(publicRouter({ authorize, dataSource, pool, participants, questionnaires, perHour: config.PUBLIC_ENQUIRIES_PER_HOUR }))

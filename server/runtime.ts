@@ -9,6 +9,7 @@ import { BOSS_SCHEMA, ensureQueues, migrateDatabase } from './db/migrate.js'
 import type { Logger } from './lib/logger.js'
 import { createMailTransport } from './modules/mail/mail-transport.js'
 import { startReminderWorker } from './modules/interviews/reminder-worker.js'
+import { startRoundReminderWorker } from './modules/themes/reminder-worker.js'
 import { buildServices } from './services.js'
 import { purgeWithdrawnData, startPurgeSchedule } from './modules/transcripts/withdrawn-data-purge.js'
 import { startMailWorker } from './modules/mail/mail-worker.js'
@@ -73,6 +74,7 @@ export async function startRuntime(config: Config, log: Logger): Promise<Runtime
     const services = buildServices({ config, dataSource, storage, boss, mailTransport, log })
     await startMailWorker(boss, services.mail, mailTransport)
     await startReminderWorker(boss, services.interviews)
+    await startRoundReminderWorker(boss, services.reviewRounds)
     await startPurgeSchedule(boss, () => purgeWithdrawnData(dataSource, storage, services.audit))
   }
 

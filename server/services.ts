@@ -35,6 +35,9 @@ import { CodingSearchService } from './modules/coding/coding-search.service.js'
 import { ExcerptService } from './modules/coding/excerpt.service.js'
 import { MemoService } from './modules/coding/memo.service.js'
 import { AgreementService } from './modules/analysis/agreement.service.js'
+import { PartnerReviewService } from './modules/themes/partner-review.service.js'
+import { ReviewRoundService } from './modules/themes/review-round.service.js'
+import { ThemeService } from './modules/themes/theme.service.js'
 import { SaturationService } from './modules/analysis/saturation.service.js'
 
 export interface AppDeps {
@@ -93,6 +96,9 @@ export function buildServices(deps: AppDeps) {
   const codeMatrices = new CodeMatrixService(dataSource, codingScope)
   const agreement = new AgreementService(dataSource, transcripts, codingScope, audit)
   const saturation = new SaturationService(dataSource, codingScope)
-  return { agreement, saturation, codingScope, codes, codeStructure, codebookTransfer, excerpts, memos, codingSearch, codeMatrices, transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
+  const themes = new ThemeService(dataSource, audit, codingScope, consent)
+  const reviewRounds = new ReviewRoundService(dataSource, audit, mail, boss, publicUrl)
+  const partnerReview = new PartnerReviewService(dataSource, consent)
+  return { themes, reviewRounds, partnerReview, agreement, saturation, codingScope, codes, codeStructure, codebookTransfer, excerpts, memos, codingSearch, codeMatrices, transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
 }
 export type Services = ReturnType<typeof buildServices>

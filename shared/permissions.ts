@@ -65,6 +65,10 @@ export const STUDY_ACTIONS = {
   'agreement.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'see inter-coder agreement and where coders differ (coders only when the study allows comparison)' },
   'saturation.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'see new codes per interview and the saturation assessment' },
   'analysis.settings': { roles: ['lead'], siteAdmin: false, description: 'switch agreement on or off for the study and choose its unit' },
+  'themes.read': { roles: ['lead', 'coder'], siteAdmin: false, description: 'see the themes with their codes and supporting excerpts' },
+  'themes.manage': { roles: ['lead'], siteAdmin: false, description: 'build themes, choose their supporting excerpts and which partners may see' },
+  'reviewRounds.manage': { roles: ['lead'], siteAdmin: false, description: 'open and close review rounds with patient partners, read their answers and respond' },
+  'review.answer': { roles: ['partner'], siteAdmin: false, description: 'read the themes of a review round in plain language and answer them' },
   'anonymisationLog.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'read the anonymisation log (identifiable)' },
 } as const satisfies Record<string, Rule>
 export type StudyAction = keyof typeof STUDY_ACTIONS

@@ -1,3 +1,4 @@
+import { ROUND_REMINDER_QUEUE } from '../modules/themes/review-round.service.js'
 import type { DataSource } from 'typeorm'
 import PgBoss from 'pg-boss'
 import { MAIL_QUEUE, MAIL_MAX_ATTEMPTS } from '../modules/mail/mail.service.js'
@@ -28,4 +29,5 @@ export async function ensureQueues(boss: PgBoss): Promise<void> {
     await boss.createQueue(REMINDER_QUEUE, { name: REMINDER_QUEUE, retryLimit: 5, retryBackoff: true, retryDelay: 30 })
   }
   if (!(await boss.getQueue(PURGE_QUEUE))) await boss.createQueue(PURGE_QUEUE, { name: PURGE_QUEUE, retryLimit: 3 })
+  if (!(await boss.getQueue(ROUND_REMINDER_QUEUE))) await boss.createQueue(ROUND_REMINDER_QUEUE, { name: ROUND_REMINDER_QUEUE, retryLimit: 5, retryBackoff: true, retryDelay: 60 })
 }

@@ -52,6 +52,9 @@ export class CodeStructureService {
       if (target.parentId === source.id) await manager.update(Code, { id: target.id }, { parentId: source.parentId })
       await manager.query(`UPDATE codes SET parent_id = $2 WHERE parent_id = $1 AND id <> $2`, [source.id, target.id])
       await manager.query(`UPDATE codes SET merged_into_id = $2 WHERE merged_into_id = $1`, [source.id, target.id])
+      // themes that drew on the source now draw on the target
+      await manager.query(`INSERT INTO theme_codes (theme_id, code_id) SELECT theme_id, $2 FROM theme_codes WHERE code_id = $1 ON CONFLICT DO NOTHING`, [source.id, target.id])
+      await manager.query(`DELETE FROM theme_codes WHERE code_id = $1`, [source.id])
       if (target.exampleExcerptId === null && source.exampleExcerptId) await manager.update(Code, { id: target.id }, { exampleExcerptId: source.exampleExcerptId })
       await updateWithVersion(manager, Code, { id: source.id, studyId }, input.version, { status: 'merged', mergedIntoId: target.id, exampleExcerptId: null }, 'code')
       await this.renumberChildren(manager, studyId, target.id)
