@@ -4,6 +4,7 @@ import type { ObjectStore } from '../storage/object-store.js'
 import { seedDemoConsent } from './demo-consent.js'
 import { seedDemoInterviews } from './demo-transcripts.js'
 import { seedDemoCoding } from './demo-coding.js'
+import { seedDemoThemes } from './demo-themes.js'
 import { AuditEvent } from '../modules/audit/audit-event.entity.js'
 import { hashPassword } from '../modules/auth/passwords.js'
 import { Membership } from '../modules/studies/membership.entity.js'
@@ -53,6 +54,8 @@ export async function seedDemo(dataSource: DataSource, nodeEnv: string, log?: Lo
         await seedDemoInterviews(manager, study, storage, { lead: userIds.get(lead.email)!, coordinator: userIds.get(coordinator.email)! })
         const coders = DEMO_TEAM.filter((m) => m.role === 'coder').map((m) => userIds.get(m.email)!)
         await seedDemoCoding(manager, study, { lead: userIds.get(lead.email)!, coder1: coders[0]!, coder2: coders[1]! })
+        const partner = DEMO_TEAM.find((m) => m.role === 'partner')!
+        await seedDemoThemes(manager, study, { coder1: coders[0]!, partner: userIds.get(partner.email)! })
       }
       await manager.getRepository(AuditEvent).save(
         manager.create(AuditEvent, {

@@ -76,4 +76,21 @@ describe('demo study', () => {
     expect((await lead.get(`/api/studies/${studyId}/memos`)).body.memos.length).toBeGreaterThanOrEqual(3)
     expect((await lead.get(`/api/studies/${studyId}/codebook/snapshots`)).body.snapshots).toHaveLength(1)
   })
+
+  it('has themes in each status and one closed review round with the partner’s answers and the team’s responses', async () => {
+    const themes = (await lead.get(`/api/studies/${studyId}/themes`)).body.themes as { status: string; parentId: string | null; support: { excerpts: number } }[]
+    expect(new Set(themes.map((t) => t.status))).toEqual(new Set(['draft', 'with_partners', 'agreed']))
+    expect(themes.some((t) => t.parentId)).toBe(true)
+    expect(themes.every((t) => t.support.excerpts > 0)).toBe(true)
+    const rounds = (await lead.get(`/api/studies/${studyId}/review-rounds`)).body.rounds
+    expect(rounds).toEqual([expect.objectContaining({ status: 'closed', partnersDone: 1, themeCount: 3 })])
+    const detail = (await lead.get(`/api/studies/${studyId}/review-rounds/${rounds[0].id}`)).body
+    expect(detail.answers).toHaveLength(3)
+    expect(detail.answers.filter((a: { response: string }) => a.response)).toHaveLength(2)
+    const partner = new Client(ctx.app)
+    await partner.signIn('partner@heardwell.test', DEMO_PASSWORD)
+    const seen = (await partner.get(`/api/studies/${studyId}/partner/rounds/${rounds[0].id}`)).body
+    expect(seen.themes.some((t: { quotes: unknown[] }) => t.quotes.length > 0)).toBe(true)
+    expect(JSON.stringify(seen)).not.toContain('P08') // withdrawn data never reaches a partner
+  })
 })
