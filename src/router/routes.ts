@@ -158,6 +158,36 @@ export const routes: RouteRecordRaw[] = [
     meta: { permission: 'saturation.read', title: 'Saturation' },
   },
   {
+    path: '/studies/:studyId/themes',
+    name: 'study-themes',
+    component: () => import('@/views/themes/ThemesView.vue'),
+    meta: { permission: 'themes.read', title: 'Themes' },
+  },
+  {
+    path: '/studies/:studyId/review-rounds',
+    name: 'study-review-rounds',
+    component: () => import('@/views/themes/ReviewRoundsView.vue'),
+    meta: { permission: 'reviewRounds.manage', title: 'Partner review' },
+  },
+  {
+    path: '/studies/:studyId/review-rounds/:roundId',
+    name: 'study-review-round',
+    component: () => import('@/views/themes/ReviewRoundView.vue'),
+    meta: { permission: 'reviewRounds.manage', title: 'Review round' },
+  },
+  {
+    path: '/studies/:studyId/review',
+    name: 'study-partner-rounds',
+    component: () => import('@/views/review/PartnerRoundsView.vue'),
+    meta: { permission: 'review.answer', title: 'Themes to review' },
+  },
+  {
+    path: '/studies/:studyId/review/:roundId',
+    name: 'study-partner-round',
+    component: () => import('@/views/review/PartnerRoundView.vue'),
+    meta: { permission: 'review.answer', title: 'Review the themes' },
+  },
+  {
     path: '/studies/:studyId/anonymisation-log',
     name: 'study-anonymisation-log',
     component: () => import('@/views/transcripts/AnonymisationLogView.vue'),
