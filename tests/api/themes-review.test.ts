@@ -1,4 +1,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { createLogger } from '../../server/lib/logger.js'
+import { AuditService } from '../../server/modules/audit/audit.service.js'
+import { MailService } from '../../server/modules/mail/mail.service.js'
+import { ReviewRoundService } from '../../server/modules/themes/review-round.service.js'
 import { makeTeam, TEST_PASSWORD, uniqueEmail } from '../support/factories.js'
 import { approvedTranscript } from '../support/interviews.js'
 import { waitForMail } from '../support/mailbox.js'
@@ -121,6 +125,19 @@ describe('a review round', () => {
     expect(seen.answer.response).toBe('We added night-time support to the theme.')
     const themes = (await lead.get(`${base()}/themes`)).body.themes
     expect(themes.find((t: { id: string }) => t.id === themeId).status).toBe('with_partners')
+  })
+
+  it('reminds the partners who have not answered every theme, and nobody else', async () => {
+    const second = await lead.post(`${base()}/review-rounds`, { title: 'Reminder check', themeIds: [themeId], closesOn: tomorrow() })
+    expect(second.status).toBe(201)
+    await waitForMail(team.users.partner.email, /Themes to read/)
+    const mail = new MailService(ctx.dataSource, ctx.boss, 'Heardwell <no-reply@heardwell.test>', createLogger('silent'))
+    const service = new ReviewRoundService(ctx.dataSource, new AuditService(ctx.dataSource), mail, ctx.boss, 'http://127.0.0.1')
+    expect(await service.remind(second.body.id)).toBe(1) // the partner has not answered yet
+    await waitForMail(team.users.partner.email, /A reminder/)
+    await partner.put(`${base()}/partner/rounds/${second.body.id}/themes/${themeId}`, { verdict: 'rings_true', comment: '', submit: true })
+    expect(await service.remind(second.body.id)).toBe(0) // answered everything: no reminder
+    await lead.post(`${base()}/review-rounds/${second.body.id}/close`)
   })
 
   it('stops showing a quote the moment its participant withdraws their data', async () => {

@@ -64,6 +64,19 @@ async function mountBoard(role: 'lead' | 'coder', list: Theme[], extra: Paramete
 }
 
 const button = (label: string) => document.body.querySelector<HTMLButtonElement>(`button[aria-label="${label}"]`)
+const handle = (name: string) => document.body.querySelector<HTMLElement>(`[draggable="true"][aria-label="Drag to move “${name}”"]`)
+const card = (id: string) => document.body.querySelector<HTMLElement>(`[data-theme-id="${id}"]`)!
+
+/** The test DOM has no DragEvent and lays nothing out: a mouse event carrying drag data, and a card given a place on screen. */
+function dragEvent(type: string, clientY = 0): MouseEvent {
+  const event = new MouseEvent(type, { bubbles: true, cancelable: true, clientY })
+  Object.defineProperty(event, 'dataTransfer', { value: new DataTransfer() })
+  return event
+}
+function placeCard(id: string, top: number): void {
+  card(id).getBoundingClientRect = () => ({ x: 0, y: top, top, left: 0, right: 600, bottom: top + 100, width: 600, height: 100, toJSON: () => ({}) })
+}
+const puts = (calls: { method: string; body?: string }[]) => calls.filter((c) => c.method === 'PUT').map((c) => JSON.parse(c.body!))
 
 describe('the theme overview', () => {
   afterEach(() => {
@@ -125,6 +138,84 @@ describe('the theme overview', () => {
       { id: 'stairs-sub', parentId: null, position: 1 },
       { id: 'help', parentId: null, position: 2 },
     ])
+  })
+
+  it('sends the whole order when the lead drags a theme to after another', async () => {
+    const { wrapper, calls } = await mountBoard('lead', themes, { 'PUT /api/studies/study-1/themes/order': { status: 200, body: { themes } } })
+    placeCard('help', 300)
+    handle('Home is not the same')!.dispatchEvent(dragEvent('dragstart'))
+    await flushPromises()
+    expect(card('home').classList).toContain('theme-board-dragged')
+    // Near the bottom edge of "Finding help": a line after it, not the highlight for going inside.
+    const over = dragEvent('dragover', 390)
+    card('help').dispatchEvent(over)
+    expect(over.defaultPrevented).toBe(true)
+    await flushPromises()
+    const helpItem = wrapper.findAll('.theme-board > li')[1]
+    expect(helpItem.classes()).toContain('theme-board-drop-after')
+    expect(card('help').classList).not.toContain('theme-board-drop-inside')
+    card('help').dispatchEvent(dragEvent('drop', 390))
+    await vi.waitFor(() => expect(puts(calls)).toHaveLength(1))
+    // The theme moves with its sub-theme, exactly as the move-down button sends it.
+    expect(puts(calls)[0]).toEqual({
+      order: [
+        { id: 'help', parentId: null, position: 0 },
+        { id: 'home', parentId: null, position: 1 },
+        { id: 'stairs-sub', parentId: 'home', position: 0 },
+      ],
+    })
+    await flushPromises()
+    expect(helpItem.classes()).not.toContain('theme-board-drop-after')
+  })
+
+  it('makes a theme a sub-theme when the lead drops it on the middle of a top-level theme', async () => {
+    const { calls } = await mountBoard('lead', themes, { 'PUT /api/studies/study-1/themes/order': { status: 200, body: { themes } } })
+    placeCard('home', 100)
+    handle('Finding help')!.dispatchEvent(dragEvent('dragstart'))
+    card('home').dispatchEvent(dragEvent('dragover', 150))
+    await flushPromises()
+    expect(card('home').classList).toContain('theme-board-drop-inside')
+    card('home').dispatchEvent(dragEvent('drop', 150))
+    await vi.waitFor(() => expect(puts(calls)).toHaveLength(1))
+    expect(puts(calls)[0]).toEqual({
+      order: [
+        { id: 'home', parentId: null, position: 0 },
+        { id: 'stairs-sub', parentId: 'home', position: 0 },
+        { id: 'help', parentId: 'home', position: 1 },
+      ],
+    })
+  })
+
+  it('refuses drops that break the two levels or go into the theme itself', async () => {
+    const { calls } = await mountBoard('lead', themes, { 'PUT /api/studies/study-1/themes/order': { status: 200, body: { themes } } })
+    placeCard('help', 300)
+    placeCard('stairs-sub', 200)
+    // "Home is not the same" has a sub-theme: the middle of another theme only places it before or after.
+    handle('Home is not the same')!.dispatchEvent(dragEvent('dragstart'))
+    card('help').dispatchEvent(dragEvent('dragover', 350))
+    await flushPromises()
+    expect(card('help').classList).not.toContain('theme-board-drop-inside')
+    // Its own sub-theme is inside it: no landing there at all.
+    const intoItself = dragEvent('dragover', 290)
+    card('stairs-sub').dispatchEvent(intoItself)
+    expect(intoItself.defaultPrevented).toBe(false)
+    card('stairs-sub').dispatchEvent(dragEvent('drop', 290))
+    // Dropped on its own card: nothing moves.
+    handle('Finding help')!.dispatchEvent(dragEvent('dragstart'))
+    card('help').dispatchEvent(dragEvent('drop', 350))
+    await flushPromises()
+    expect(puts(calls)).toHaveLength(0)
+  })
+
+  it('gives read-only coders nothing to drag', async () => {
+    await mountBoard('coder', themes)
+    expect(card('home')).not.toBeNull()
+    expect(document.body.querySelectorAll('[draggable="true"]')).toHaveLength(0)
+    expect(document.body.querySelector('[aria-label^="Drag to move"]')).toBeNull()
+    // A drag from elsewhere lands nowhere on the board.
+    const over = dragEvent('dragover', 50)
+    card('home').dispatchEvent(over)
+    expect(over.defaultPrevented).toBe(false)
   })
 
   it('asks once before deleting, sends the version and shows why a theme in an open round stays', async () => {

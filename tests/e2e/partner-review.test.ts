@@ -58,6 +58,13 @@ describe('patient partner review', () => {
     }
     await partner.getByText(/answered 2 of 2/).waitFor()
     await screenshot(partner, '29-partner-answered')
+    // what a partner can never open, even by typing the address
+    for (const page of ['transcripts', 'participants', 'consent', 'themes', 'search', 'memos']) {
+      await partner.goto(`${e2e.baseUrl}/studies/${studyId}/${page}`)
+      await partner.getByText('This page is not open to you').waitFor()
+    }
+    const navigation = await partner.getByRole('navigation', { name: 'Main' }).innerText()
+    expect(navigation).not.toMatch(/Transcripts|Participants|Codebook|Consent/)
 
     const roundId = roundPath.split('/').pop()!
     // one browser: the partner's sign-in replaced the lead's session, so the lead signs in again
