@@ -67,11 +67,12 @@ const button = (label: string) => document.body.querySelector<HTMLButtonElement>
 const handle = (name: string) => document.body.querySelector<HTMLElement>(`[draggable="true"][aria-label="Drag to move “${name}”"]`)
 const card = (id: string) => document.body.querySelector<HTMLElement>(`[data-theme-id="${id}"]`)!
 
-/** The test DOM has no DragEvent and lays nothing out: a mouse event carrying drag data, and a card given a place on screen. */
-function dragEvent(type: string, clientY = 0): MouseEvent {
+/** The test DOM has no DragEvent and lays nothing out: a mouse event carrying stand-in drag data, and a card given a place on screen. */
+function dragEvent(type: string, clientY = 0) {
   const event = new MouseEvent(type, { bubbles: true, cancelable: true, clientY })
-  Object.defineProperty(event, 'dataTransfer', { value: new DataTransfer() })
-  return event
+  const dataTransfer = { effectAllowed: 'all', dropEffect: 'none', setData: vi.fn(), setDragImage: vi.fn() }
+  Object.defineProperty(event, 'dataTransfer', { value: dataTransfer })
+  return Object.assign(event, { stand: dataTransfer })
 }
 function placeCard(id: string, top: number): void {
   card(id).getBoundingClientRect = () => ({ x: 0, y: top, top, left: 0, right: 600, bottom: top + 100, width: 600, height: 100, toJSON: () => ({}) })
@@ -143,7 +144,11 @@ describe('the theme overview', () => {
   it('sends the whole order when the lead drags a theme to after another', async () => {
     const { wrapper, calls } = await mountBoard('lead', themes, { 'PUT /api/studies/study-1/themes/order': { status: 200, body: { themes } } })
     placeCard('help', 300)
-    handle('Home is not the same')!.dispatchEvent(dragEvent('dragstart'))
+    const start = dragEvent('dragstart')
+    handle('Home is not the same')!.dispatchEvent(start)
+    // The whole card follows the pointer, not just its handle.
+    expect(start.stand.effectAllowed).toBe('move')
+    expect(start.stand.setDragImage).toHaveBeenCalledWith(card('home'), 24, 24)
     await flushPromises()
     expect(card('home').classList).toContain('theme-board-dragged')
     // Near the bottom edge of "Finding help": a line after it, not the highlight for going inside.
@@ -187,7 +192,7 @@ describe('the theme overview', () => {
   })
 
   it('refuses drops that break the two levels or go into the theme itself', async () => {
-    const { calls } = await mountBoard('lead', themes, { 'PUT /api/studies/study-1/themes/order': { status: 200, body: { themes } } })
+    const { wrapper, calls } = await mountBoard('lead', themes, { 'PUT /api/studies/study-1/themes/order': { status: 200, body: { themes } } })
     placeCard('help', 300)
     placeCard('stairs-sub', 200)
     // "Home is not the same" has a sub-theme: the middle of another theme only places it before or after.
@@ -195,6 +200,7 @@ describe('the theme overview', () => {
     card('help').dispatchEvent(dragEvent('dragover', 350))
     await flushPromises()
     expect(card('help').classList).not.toContain('theme-board-drop-inside')
+    expect(wrapper.findAll('.theme-board > li')[1].classes()).toContain('theme-board-drop-after')
     // Its own sub-theme is inside it: no landing there at all.
     const intoItself = dragEvent('dragover', 290)
     card('stairs-sub').dispatchEvent(intoItself)
