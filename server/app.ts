@@ -29,6 +29,7 @@ import { interviewsRouter } from './modules/interviews/interviews.router.js'
 import { transcriptsRouter } from './modules/transcripts/transcripts.router.js'
 import { codesRouter } from './modules/coding/codes.router.js'
 import { analysisRouter } from './modules/analysis/analysis.router.js'
+import { reportsRouter } from './modules/reports/reports.router.js'
 import { reviewRoundsRouter } from './modules/themes/review-rounds.router.js'
 import { themesRouter } from './modules/themes/themes.router.js'
 import { codeMatricesRouter } from './modules/coding/code-matrices.router.js'
@@ -112,6 +113,7 @@ export function createApp(deps: AppDeps) {
   api.use(memosRouter({ authorize, memos: services.memos }))
   api.use(searchRouter({ authorize, search: services.codingSearch, excerpts: services.excerpts }))
   api.use(codeMatricesRouter({ authorize, matrices: services.codeMatrices, excerpts: services.excerpts }))
+  api.use(reportsRouter({ authorize, reports: services.reports, quotes: services.quoteExports, exports: services.reportExports, codebook: services.codebookTransfer }))
   api.use(themesRouter({ authorize, themes: services.themes }))
   api.use(reviewRoundsRouter({ authorize, rounds: services.reviewRounds, partner: services.partnerReview }))
   api.use(analysisRouter({ authorize, agreement: services.agreement, saturation: services.saturation, excerpts: services.excerpts }))

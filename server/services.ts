@@ -35,6 +35,9 @@ import { CodingSearchService } from './modules/coding/coding-search.service.js'
 import { ExcerptService } from './modules/coding/excerpt.service.js'
 import { MemoService } from './modules/coding/memo.service.js'
 import { AgreementService } from './modules/analysis/agreement.service.js'
+import { QuoteExportService } from './modules/reports/quote-export.service.js'
+import { ReportExportsService } from './modules/reports/report-exports.service.js'
+import { ReportsService } from './modules/reports/reports.service.js'
 import { PartnerReviewService } from './modules/themes/partner-review.service.js'
 import { ReviewRoundService } from './modules/themes/review-round.service.js'
 import { ThemeService } from './modules/themes/theme.service.js'
@@ -99,6 +102,9 @@ export function buildServices(deps: AppDeps) {
   const themes = new ThemeService(dataSource, audit, codingScope, consent)
   const reviewRounds = new ReviewRoundService(dataSource, audit, mail, boss, publicUrl)
   const partnerReview = new PartnerReviewService(dataSource, consent)
-  return { themes, reviewRounds, partnerReview, agreement, saturation, codingScope, codes, codeStructure, codebookTransfer, excerpts, memos, codingSearch, codeMatrices, transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
+  const reports = new ReportsService(dataSource, agreement, saturation)
+  const quoteExports = new QuoteExportService(dataSource, consent)
+  const reportExports = new ReportExportsService(dataSource, reports, audit)
+  return { reports, quoteExports, reportExports, themes, reviewRounds, partnerReview, agreement, saturation, codingScope, codes, codeStructure, codebookTransfer, excerpts, memos, codingSearch, codeMatrices, transcripts, pool, publicUrl, audit, mail, sessions, throttle, auth, invitations, studies, members, users, questionnaires, participants, recruitmentSettings, summaries, screeningLog, consentForms, consent, withdrawals, consentSummaries, interviews, guides }
 }
 export type Services = ReturnType<typeof buildServices>

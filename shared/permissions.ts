@@ -69,6 +69,8 @@ export const STUDY_ACTIONS = {
   'themes.manage': { roles: ['lead'], siteAdmin: false, description: 'build themes, choose their supporting excerpts and which partners may see' },
   'reviewRounds.manage': { roles: ['lead'], siteAdmin: false, description: 'open and close review rounds with patient partners, read their answers and respond' },
   'review.answer': { roles: ['partner'], siteAdmin: false, description: 'read the themes of a review round in plain language and answer them' },
+  'reports.read': { roles: ['lead', 'coordinator', 'coder'], siteAdmin: false, description: 'see the reports (characteristics with small cells suppressed, recruitment flow, quotes allowed by consent, checklists, methods summary) and download them as CSV' },
+  'reports.manage': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'fill in the reporting checklists' },
   'anonymisationLog.read': { roles: ['lead', 'coordinator'], siteAdmin: false, description: 'read the anonymisation log (identifiable)' },
 } as const satisfies Record<string, Rule>
 export type StudyAction = keyof typeof STUDY_ACTIONS

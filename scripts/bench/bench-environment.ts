@@ -80,6 +80,14 @@ export async function startBenchEnvironment(options: { clientDist?: string } = {
       .use(express.json())
       .get('/plain', (_req, res) => res.json({ ok: true }))
       .post('/plain', (req, res) => res.status(201).json({ ok: true, size: JSON.stringify(req.body).length }))
+      // n CSV rows written from memory, in chunks, as a streaming baseline
+      .get('/rows', async (req, res) => {
+        const n = Math.min(Number(req.query.n) || 0, 200_000)
+        res.setHeader('Content-Type', 'text/csv; charset=utf-8')
+        const line = 'Bench theme,draft,P01,,"The first week was the hardest, the stairs and the bathroom."\r\n'
+        for (let i = 0; i < n; i += 500) if (!res.write(line.repeat(Math.min(500, n - i)))) await new Promise((r) => res.once('drain', r))
+        res.end()
+      })
     const servers: Server[] = await Promise.all([app, baseline].map((a) => new Promise<Server>((resolve) => { const s = a.listen(0, '127.0.0.1', () => resolve(s)) })))
     cleanup.push(() => Promise.all(servers.map((s) => new Promise<void>((resolve) => { s.closeAllConnections(); s.close(() => resolve()) }))).then(() => {}))
     const [appPort, basePort] = servers.map((s) => (s.address() as { port: number }).port) as [number, number]

@@ -1,11 +1,12 @@
 /**
  * `npm run bench`: every benchmark, each printing a ratio against a baseline measured in the same run.
- * `npm run bench -- scan`, `-- api`, `-- apply-code`, `-- coding-view` or `-- agreement` runs one.
+ * `npm run bench -- scan`, `-- api`, `-- apply-code`, `-- coding-view`, `-- agreement` or `-- quotes-export` runs one.
  */
 import { runAgreement } from './agreement.js'
 import { runApiThroughput } from './api-throughput.js'
 import { runApplyCode } from './apply-code.js'
 import { runCodingView } from './coding-view.js'
+import { runQuotesExport } from './quotes-export.js'
 import { runTranscriptScan } from './transcript-scan.js'
 
 const only = process.argv[2]
@@ -14,4 +15,5 @@ if (!only || only === 'api') await runApiThroughput()
 if (!only || only === 'apply-code') await runApplyCode()
 if (!only || only === 'coding-view') await runCodingView()
 if (!only || only === 'agreement') await runAgreement()
+if (!only || only === 'quotes-export') await runQuotesExport()
 process.exit(0)

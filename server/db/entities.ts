@@ -13,6 +13,7 @@ import { Excerpt, ExcerptCode } from '../modules/coding/excerpt.entity.js'
 import { Memo } from '../modules/coding/memo.entity.js'
 import { PartnerAnswer, ReviewRound, ReviewRoundTheme } from '../modules/themes/review-round.entity.js'
 import { Theme, ThemeCode, ThemeExcerpt } from '../modules/themes/theme.entity.js'
+import { ChecklistAnswer } from '../modules/reports/checklist-answer.entity.js'
 import { AuditEvent } from '../modules/audit/audit-event.entity.js'
 import { PasswordResetToken } from '../modules/auth/password-reset-token.entity.js'
 import { OutboxMessage } from '../modules/mail/outbox-message.entity.js'
@@ -27,4 +28,4 @@ import { Study } from '../modules/studies/study.entity.js'
 import { User } from '../modules/users/user.entity.js'
 
 /** Every entity class; listed, never globbed (globs break under vitest). */
-export const entities = [User, Study, Membership, Invitation, PasswordResetToken, AuditEvent, OutboxMessage, ScreeningQuestionnaire, Participant, ParticipantContact, Screening, ParticipantEvent, ConsentForm, ConsentRecord, ConsentLink, Withdrawal, WithdrawalRequest, InterviewGuide, Interview, Transcript, TranscriptTurn, AnonymisationLogEntry, Code, Excerpt, ExcerptCode, Memo, CodebookSnapshot, Theme, ThemeCode, ThemeExcerpt, ReviewRound, ReviewRoundTheme, PartnerAnswer]
+export const entities = [User, Study, Membership, Invitation, PasswordResetToken, AuditEvent, OutboxMessage, ScreeningQuestionnaire, Participant, ParticipantContact, Screening, ParticipantEvent, ConsentForm, ConsentRecord, ConsentLink, Withdrawal, WithdrawalRequest, InterviewGuide, Interview, Transcript, TranscriptTurn, AnonymisationLogEntry, Code, Excerpt, ExcerptCode, Memo, CodebookSnapshot, Theme, ThemeCode, ThemeExcerpt, ReviewRound, ReviewRoundTheme, PartnerAnswer, ChecklistAnswer]

@@ -16,6 +16,12 @@ export function toCsv(fields: string[], rows: unknown[][], options: { bom?: bool
   return (options.bom ? '\uFEFF' : '') + body + '\r\n'
 }
 
+/** Rows only (no header line), each ending in CRLF: for exports written piece by piece. */
+export function csvRows(rows: unknown[][]): string {
+  if (!rows.length) return ''
+  return Papa.unparse(rows.map((row) => row.map(safeCell)), { quotes: false, newline: '\r\n' }) + '\r\n'
+}
+
 /** RFC 6266 attachment with an ASCII fallback name and the UTF-8 one. */
 export function attachment(filename: string): string {
   const ascii = filename.replace(/[^\x20-\x7e]/g, '_').replace(/["\\]/g, '_')

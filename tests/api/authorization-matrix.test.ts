@@ -98,7 +98,8 @@ describe('authorization matrix', () => {
     // routes whose answers hold contact details, consent records, identifiable transcript text or the
     // anonymisation log: only the lead and coordinators may call them (design: coders and patient
     // partners never receive identifying data)
-    const identifying = [/\/participants\/:participantId(\/|$)/, /\/consent/, /\/deidentification/, /\/anonymisation-log/, /\/exports\//, /\/invitations$/, /\/audit$/, /\/interviews/]
+    // (report exports of aggregates with small cells suppressed, consented quotes, checklists and the codebook are de-identified and open to coders)
+    const identifying = [/\/participants\/:participantId(\/|$)/, /\/consent/, /\/deidentification/, /\/anonymisation-log/, /\/exports\/(screening-log|audit)/, /\/invitations$/, /\/audit$/, /\/interviews/]
     const leaks = listRoutes(ctx.app)
       .filter((r) => r.path.startsWith('/api/studies/') && identifying.some((re) => re.test(r.path)))
       .filter((r) => (['coder', 'partner'] as const).some((role) => decide({ signedIn: true, siteAdmin: false, role }, r.access!) === 'allow'))

@@ -14,7 +14,7 @@ interface Row {
 }
 
 /** Why a person was not enrolled, in words a team reports (counts only; no individual records). */
-function reasonsOf(row: Row): string[] {
+export function reasonsOf(row: Pick<Row, 'overridden' | 'help_seeking' | 'failing'>): string[] {
   if (row.overridden) return ['Decided by the lead after screening']
   if (row.help_seeking) return ['Looking for help with their own care']
   const failing = row.failing ?? []
