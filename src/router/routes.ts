@@ -188,6 +188,12 @@ export const routes: RouteRecordRaw[] = [
     meta: { permission: 'review.answer', title: 'Review the themes' },
   },
   {
+    path: '/studies/:studyId/reports',
+    name: 'study-reports',
+    component: () => import('@/views/reports/ReportsView.vue'),
+    meta: { permission: 'reports.read', title: 'Reports' },
+  },
+  {
     path: '/studies/:studyId/anonymisation-log',
     name: 'study-anonymisation-log',
     component: () => import('@/views/transcripts/AnonymisationLogView.vue'),
