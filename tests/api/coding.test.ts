@@ -298,6 +298,18 @@ describe('memos, search and matrices', () => {
     expect((await coordinator.get(`${base()}/memos`)).status).toBe(403)
   })
 
+  it('still finds an older memo to edit when the study has more than the newest 500', async () => {
+    const old = (await coder.post(`${base()}/memos`, { targetType: 'study', body: 'An early thought' })).body
+    await ctx.dataSource.query(
+      `INSERT INTO memos (study_id, target_type, body, author_id, created_at) SELECT $1, 'study', 'later ' || g, $2, now() + g * interval '1 second' FROM generate_series(1, 520) g`,
+      [team.study.id, team.users.coder.id],
+    )
+    const edited = await coder.patch(`${base()}/memos/${old.id}`, { version: old.version, body: 'An early thought, revisited' })
+    expect(edited.status, JSON.stringify(edited.body)).toBe(200)
+    expect(edited.body.body).toBe('An early thought, revisited')
+    await ctx.dataSource.query(`DELETE FROM memos WHERE body LIKE 'later %'`)
+  })
+
   it('searches excerpts and transcripts with filters and context, own excerpts only without comparison', async () => {
     const res = await coder.get(`${base()}/search?q=stairs`)
     expect(res.status, JSON.stringify(res.body)).toBe(200)

@@ -30,12 +30,13 @@ export class MemoService {
     private readonly scope: CodingScope,
   ) {}
 
-  async list(studyId: string, filter: { targetType?: MemoTarget; targetId?: string; q?: string }): Promise<MemoDto[]> {
+  async list(studyId: string, filter: { targetType?: MemoTarget; targetId?: string; q?: string; id?: string }): Promise<MemoDto[]> {
     const usable = await this.scope.usableParticipants(studyId)
     const params: unknown[] = [studyId, usable]
     const where = ['m.study_id = $1', `(coalesce(t.participant_id, te.participant_id) IS NULL OR coalesce(t.participant_id, te.participant_id) = ANY($2::uuid[]))`]
     if (filter.targetType) where.push(`m.target_type = $${params.push(filter.targetType)}`)
     if (filter.targetId) where.push(`m.target_id = $${params.push(filter.targetId)}`)
+    if (filter.id) where.push(`m.id = $${params.push(filter.id)}`)
     if (filter.q) where.push(`to_tsvector('english', m.body) @@ websearch_to_tsquery('english', $${params.push(filter.q)})`)
     const rows: MemoRow[] = await this.dataSource.query(
       `SELECT m.id, m.target_type, m.target_id, m.body, m.author_id, u.name AS author_name, m.version, m.created_at, m.updated_at,
@@ -71,7 +72,8 @@ export class MemoService {
   }
 
   private async one(studyId: string, memoId: string): Promise<MemoDto> {
-    const memo = (await this.list(studyId, {})).find((m) => m.id === memoId)
+    // by id, not by scanning the newest 500: an older memo must still be found after an edit
+    const [memo] = await this.list(studyId, { id: memoId })
     if (!memo) throw new NotFoundError('memo')
     return memo
   }
