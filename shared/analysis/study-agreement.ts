@@ -1,3 +1,4 @@
+import { trimRange } from '../coding/offsets.js'
 import { AgreementUndefinedError, binaryAgreementFromCounts, krippendorffAlphaFromCoincidences, tryAgreement, type AgreementOutcome } from './agreement.js'
 
 /**
@@ -67,10 +68,7 @@ export function unitsOf(text: string, turns: readonly Span[], unit: 'turn' | 'se
 }
 
 function trimmed(text: string, start: number, end: number): Span {
-  let s = start
-  let e = end
-  while (s < e && /\s/u.test(text[s]!)) s++
-  while (e > s && /\s/u.test(text[e - 1]!)) e--
+  const [s, e] = trimRange(text, start, end)
   return { start: s, end: e }
 }
 

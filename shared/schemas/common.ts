@@ -30,6 +30,9 @@ export const email = z
 
 export const uuid = z.uuid({ message: 'Not a valid id.' })
 
+/** A calendar date as YYYY-MM-DD. */
+export const isoDate = z.iso.date({ message: 'Use a date like 2026-05-31.' })
+
 export const idParams = z.strictObject({ studyId: uuid })
 
 /** RFC 9457 problem details, as every error response carries them. */

@@ -1,5 +1,5 @@
 import { z } from 'zod'
-import { requiredText, text } from './common.js'
+import { isoDate, requiredText, text } from './common.js'
 
 const key = z
   .string()
@@ -7,7 +7,6 @@ const key = z
   .min(1)
   .max(40)
   .regex(/^[a-z][a-z0-9_]*$/, 'Use lower-case letters, digits and underscores, starting with a letter.')
-const isoDate = z.iso.date({ message: 'Use a date like 2026-05-31.' })
 
 /* ------------------------------------------------------------------ form versions */
 

@@ -1,10 +1,9 @@
 import { z } from 'zod'
-import { requiredText, text } from './common.js'
+import { isoDate, requiredText, text } from './common.js'
 import { isTimeZone } from '../interviews/time.js'
 
 const zone = z.string().max(60).refine(isTimeZone, 'Choose a time zone from the list.')
 const localDateTime = z.string().regex(/^\d{4}-\d{2}-\d{2}T\d{2}:\d{2}$/, 'Use a date and time like 2026-05-31T14:30.')
-const isoDate = z.iso.date({ message: 'Use a date like 2026-05-31.' })
 
 export const INTERVIEW_MODES = ['video', 'phone', 'in_person'] as const
 export const INTERVIEW_STATUSES = ['scheduled', 'done', 'missed', 'cancelled'] as const

@@ -1,6 +1,6 @@
 import { z } from 'zod'
 import { STUDY_ROLES } from '../permissions.js'
-import { email, requiredText, text } from './common.js'
+import { email, isoDate, requiredText, text } from './common.js'
 
 export const studyCode = z
   .string()
@@ -28,8 +28,6 @@ export type Study = z.infer<typeof studySchema>
 
 export const studyListResponse = z.object({ studies: z.array(studySchema.extend({ myRole: z.enum(STUDY_ROLES).nullable() })) })
 export type StudyListResponse = z.infer<typeof studyListResponse>
-
-const isoDate = z.iso.date({ message: 'Use a date like 2026-05-31.' })
 
 export const studyCreate = z.strictObject({
   code: studyCode,

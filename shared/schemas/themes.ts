@@ -1,7 +1,5 @@
 import { z } from 'zod'
-import { requiredText, text, uuid } from './common.js'
-
-const isoDate = z.iso.date({ message: 'Use a date like 2026-05-31.' })
+import { isoDate, requiredText, text, uuid } from './common.js'
 
 /**
  * Themes and patient partner review: themes built from codes and chosen excerpts, review rounds the

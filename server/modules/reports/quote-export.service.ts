@@ -4,6 +4,7 @@ import type { DataSource } from 'typeorm'
 import type { QuotesReport } from '../../../shared/schemas/reports.js'
 import { csvRows } from '../../lib/csv.js'
 import type { ConsentService } from '../consent/consent.service.js'
+import { characteristicLabels } from '../recruitment/characteristic-labels.js'
 import { Study } from '../studies/study.entity.js'
 
 interface QuoteRow {
@@ -39,12 +40,7 @@ export class QuoteExportService {
     const keys = round?.show_characteristics ?? []
     return {
       keys,
-      label: (characteristics) =>
-        keys.flatMap((key) => {
-          const c = study.samplingCharacteristics.find((x) => x.key === key)
-          const value = characteristics?.[key]
-          return c && value !== undefined ? [{ label: c.label, value: c.values.find((v) => v.value === value)?.label ?? value }] : []
-        }),
+      label: (characteristics) => characteristicLabels(study.samplingCharacteristics, keys, characteristics),
     }
   }
 

@@ -1,5 +1,5 @@
 import type { DataSource } from 'typeorm'
-import { characteristicsTable } from '../../../shared/reports/characteristics.js'
+import { characteristicsTable, durationSummary } from '../../../shared/reports/characteristics.js'
 import { checklistReport } from '../../../shared/reports/checklists.js'
 import { recruitmentFlow } from '../../../shared/reports/flow.js'
 import { methodsParagraphs } from '../../../shared/reports/methods-summary.js'
@@ -104,9 +104,7 @@ export class ReportsService {
     const facts: MethodsSummary['facts'] = {
       interviews: modes.reduce((sum, m) => sum + m.count, 0),
       modes,
-      duration: minutes.length
-        ? { n: minutes.length, mean: Math.round((minutes.reduce((a, b) => a + b, 0) / minutes.length) * 10) / 10, median: median(minutes), min: minutes[0]!, max: minutes[minutes.length - 1]! }
-        : null,
+      duration: durationSummary(minutes),
       coders: coders[0]?.n ?? 0,
       agreement: agreement.enabled && agreement.overall ? { unit: agreement.unit, alpha: value(agreement.overall.alpha), kappa: value(agreement.overall.kappa), percentAgreement: agreement.overall.percentAgreement } : null,
       saturation: saturation.interviews.length ? saturation.methodsSentence : null,
@@ -115,9 +113,4 @@ export class ReportsService {
     }
     return { paragraphs: methodsParagraphs(facts), facts }
   }
-}
-
-function median(sorted: number[]): number {
-  const middle = Math.floor(sorted.length / 2)
-  return sorted.length % 2 ? sorted[middle]! : (sorted[middle - 1]! + sorted[middle]!) / 2
 }

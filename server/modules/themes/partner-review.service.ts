@@ -2,6 +2,7 @@ import { In, type DataSource } from 'typeorm'
 import type { PartnerAnswerInput, PartnerRound, PartnerTheme } from '../../../shared/schemas/themes.js'
 import { ConflictError, NotFoundError } from '../../lib/errors.js'
 import type { ConsentService } from '../consent/consent.service.js'
+import { characteristicLabels } from '../recruitment/characteristic-labels.js'
 import { Study } from '../studies/study.entity.js'
 import { PartnerAnswer, ReviewRound, ReviewRoundTheme } from './review-round.entity.js'
 import { longDate } from './review-mail.js'
@@ -94,12 +95,7 @@ export class PartnerReviewService {
     const out = new Map<string, PartnerTheme['quotes']>()
     for (const r of rows) {
       if (!uses.get(r.participant_id)?.mayShowPartners) continue
-      const characteristics = show.flatMap((key) => {
-        const c = study.samplingCharacteristics.find((x) => x.key === key)
-        const value = r.characteristics?.[key]
-        if (!c || value === undefined) return []
-        return [{ label: c.label, value: c.values.find((v) => v.value === value)?.label ?? value }]
-      })
+      const characteristics = characteristicLabels(study.samplingCharacteristics, show, r.characteristics)
       out.set(r.theme_id, [...(out.get(r.theme_id) ?? []), { text: r.text, pseudonym: r.pseudonym, characteristics }])
     }
     return out

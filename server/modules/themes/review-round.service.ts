@@ -32,17 +32,21 @@ export class ReviewRoundService {
   }
 
   async list(studyId: string): Promise<RoundSummary[]> {
-    const rounds = await this.dataSource.getRepository(ReviewRound).find({ where: { studyId }, order: { createdAt: 'DESC' } })
-    return Promise.all(rounds.map((r) => this.summary(this.dataSource.manager, r)))
+    const [rounds, partners] = await Promise.all([
+      this.dataSource.getRepository(ReviewRound).find({ where: { studyId }, order: { createdAt: 'DESC' } }),
+      this.partners(this.dataSource.manager, studyId),
+    ])
+    // the team's partners once for every round, not once per round
+    return Promise.all(rounds.map((r) => this.summary(this.dataSource.manager, r, partners.length)))
   }
 
-  private async summary(manager: EntityManager, round: ReviewRound): Promise<RoundSummary> {
-    const [themes, partners] = await Promise.all([manager.count(ReviewRoundTheme, { where: { roundId: round.id } }), this.partners(manager, round.studyId)])
+  private async summary(manager: EntityManager, round: ReviewRound, partnerCount?: number): Promise<RoundSummary> {
+    const [themes, partners] = await Promise.all([manager.count(ReviewRoundTheme, { where: { roundId: round.id } }), partnerCount ?? this.partners(manager, round.studyId).then((p) => p.length)])
     const done: { n: number }[] = await manager.query(
       `SELECT count(*)::int AS n FROM (SELECT partner_id FROM partner_answers WHERE round_id = $1 AND submitted_at IS NOT NULL GROUP BY partner_id HAVING count(*) >= $2) d`,
       [round.id, themes],
     )
-    return { id: round.id, title: round.title, closesOn: round.closesOn, status: roundStatus(round), themeCount: themes, partners: partners.length, partnersDone: themes ? done[0]!.n : 0, createdAt: round.createdAt.toISOString() }
+    return { id: round.id, title: round.title, closesOn: round.closesOn, status: roundStatus(round), themeCount: themes, partners, partnersDone: themes ? done[0]!.n : 0, createdAt: round.createdAt.toISOString() }
   }
 
   async create(studyId: string, input: RoundCreate, actor: AuditActor): Promise<RoundDetail> {
