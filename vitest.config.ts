@@ -49,6 +49,18 @@ export default defineConfig({
           fileParallelism: false,
         },
       },
+      {
+        // fault drills: each file starts its own PostgreSQL cluster, fake S3 and SMTP and the real
+        // server as a child process, then stops and starts them (no shared global setup)
+        resolve: { alias },
+        test: {
+          name: 'faults',
+          include: ['tests/faults/**/*.test.ts'],
+          environment: 'node',
+          testTimeout: 120_000,
+          hookTimeout: 120_000,
+        },
+      },
     ],
   },
 })

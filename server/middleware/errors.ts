@@ -9,9 +9,21 @@ export function isDatabaseUnavailable(error: unknown): boolean {
   const e = error as { code?: string; message?: string }
   const codes = ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE', '57P01', '57P02', '57P03', '08000', '08003', '08006', '08001', '08004', '53300']
   if (e?.code && codes.includes(e.code)) return true
-  return /Connection terminated|connection timeout|Client has encountered a connection error|terminating connection|the database system is (starting up|shutting down)|not currently accepting connections/i.test(
+  // "timeout exceeded when trying to connect": every pooled connection stayed busy past the pool's wait
+  return /Connection terminated|connection timeout|timeout exceeded when trying to connect|Client has encountered a connection error|terminating connection|the database system is (starting up|shutting down)|not currently accepting connections/i.test(
     e?.message ?? '',
   )
+}
+
+/**
+ * Errors from the object store's client (the AWS SDK marks them with `$metadata`) meaning the store
+ * cannot be reached or failed on its side, as opposed to refusing this request.
+ */
+export function isStorageUnavailable(error: unknown): boolean {
+  const e = error as { $metadata?: { httpStatusCode?: number }; code?: string; name?: string }
+  if (!e?.$metadata) return false
+  const status = e.$metadata.httpStatusCode
+  return status === undefined || status >= 500 || e.name === 'TimeoutError'
 }
 
 function send(res: Response, req: Request, status: number, type: string, title: string, detail?: string, extra: object = {}) {
@@ -46,6 +58,11 @@ export function createErrorHandler(log: Logger, exposeDetails: boolean) {
     }
     if (typeof e?.status === 'number' && e.status >= 400 && e.status < 500) {
       return send(res, req, e.status, 'client-error', 'The request could not be served', 'Check the address and try again.')
+    }
+    // before the database check: a refused connection to the object store has the same error code
+    if (isStorageUnavailable(error)) {
+      log.error({ err: e?.message, requestId: req.requestId }, 'file storage unavailable')
+      return send(res, req, 503, 'unavailable', 'Service unavailable', 'File storage is not available right now. Please try again in a minute.')
     }
     if (isDatabaseUnavailable(error)) {
       log.error({ err: e?.message, requestId: req.requestId }, 'database unavailable')

@@ -44,7 +44,7 @@ function throttledStore(PgStore: ReturnType<typeof connectPgSimple>) {
 
 export function createSessionMiddleware(pool: Pool, settings: SessionSettings) {
   const PgStore = throttledStore(connectPgSimple(session))
-  return session({
+  const middleware = session({
     name: settings.secure ? '__Host-heardwell.sid' : 'heardwell.sid',
     secret: settings.secret,
     store: new PgStore({ pool, tableName: 'session', pruneSessionInterval: settings.pruneSessions ? 15 * 60 : false }),
@@ -54,6 +54,16 @@ export function createSessionMiddleware(pool: Pool, settings: SessionSettings) {
     unset: 'destroy',
     cookie: { httpOnly: true, sameSite: 'lax', secure: settings.secure, path: '/', maxAge: settings.idleMinutes * 60_000 },
   })
+  return function sessionOrUnavailable(req: Request, res: Response, next: NextFunction) {
+    middleware(req, res, (error?: unknown) => {
+      // The session could not be read (the database is down, or its connection was cut): the error
+      // handler answers 503. Forget the session id for the rest of this request, or express-session
+      // (unset: 'destroy') would delete the unread session when the response ends, signing the user
+      // out over a passing fault, and a failed delete would call `next` again and cut the connection.
+      if (error) req.sessionID = undefined as unknown as string
+      next(error)
+    })
+  }
 }
 
 export function enforceAbsoluteLimit(absoluteHours: number) {
