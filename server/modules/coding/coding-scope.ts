@@ -14,11 +14,7 @@ export class CodingScope {
 
   /** Participants with an approved transcript in the study whose data may be coded. */
   async usableParticipants(studyId: string): Promise<string[]> {
-    const rows: { participant_id: string }[] = await this.dataSource.query(
-      `SELECT DISTINCT participant_id FROM transcripts WHERE study_id = $1 AND status = 'approved' AND purged_at IS NULL`,
-      [studyId],
-    )
-    const uses = await this.consent.dataUseFor(studyId, rows.map((r) => r.participant_id))
+    const uses = await this.consent.dataUseOfTranscribed(studyId)
     return [...uses].filter(([, use]) => use.mayCode).map(([id]) => id)
   }
 

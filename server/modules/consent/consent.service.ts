@@ -64,6 +64,28 @@ function policyFor(records: ConsentRecord[], withdrawal: Withdrawal | null, form
   })
 }
 
+type DataUseRow = { records: RecordRow[]; withdrawals: Pick<Withdrawal, 'participantId' | 'scope' | 'dataRemoved'>[]; forms: Pick<ConsentForm, 'id' | 'clauses'>[] }
+
+/** The consent records, withdrawals and forms the data-use policy reads, for the participants in `ids` (an SQL uuid[]; $1 is the study). */
+function dataUseColumns(ids: string): string {
+  return `(SELECT coalesce(json_agg(json_build_object('id', id, 'participantId', participant_id, 'formId', form_id, 'correctsId', corrects_id, 'clauses', clauses, 'createdAt', created_at)), '[]')
+            FROM consent_records WHERE study_id = $1 AND participant_id = ANY(${ids})) AS records,
+         (SELECT coalesce(json_agg(json_build_object('participantId', participant_id, 'scope', scope, 'dataRemoved', data_removed)), '[]')
+            FROM withdrawals WHERE study_id = $1 AND participant_id = ANY(${ids})) AS withdrawals,
+         (SELECT coalesce(json_agg(json_build_object('id', id, 'clauses', clauses)), '[]') FROM consent_forms WHERE study_id = $1) AS forms`
+}
+
+function policies(ids: string[], row: DataUseRow): Map<string, ReturnType<typeof dataUsePolicy>> {
+  const records = row.records.map((r) => ({ ...r, createdAt: new Date(r.createdAt) })) as unknown as ConsentRecord[]
+  const withdrawals = row.withdrawals as Withdrawal[]
+  const formById = new Map((row.forms as ConsentForm[]).map((f) => [f.id, f]))
+  const result = new Map<string, ReturnType<typeof dataUsePolicy>>()
+  for (const id of ids) {
+    result.set(id, policyFor(records.filter((r) => r.participantId === id), withdrawals.find((w) => w.participantId === id) ?? null, formById))
+  }
+  return result
+}
+
 export class ConsentService {
   constructor(
     private readonly dataSource: DataSource,
@@ -80,26 +102,24 @@ export class ConsentService {
    */
   async dataUseFor(studyId: string, participantIds: string[]): Promise<Map<string, ReturnType<typeof dataUsePolicy>>> {
     const ids = [...new Set(participantIds)]
-    const result = new Map<string, ReturnType<typeof dataUsePolicy>>()
-    if (!ids.length) return result
+    if (!ids.length) return new Map()
     // one round trip with only the columns the policy reads: this runs on every coding request
-    const [row]: { records: RecordRow[]; withdrawals: Pick<Withdrawal, 'participantId' | 'scope' | 'dataRemoved'>[]; forms: Pick<ConsentForm, 'id' | 'clauses'>[] }[] = await this.dataSource.query(
-      `SELECT
-         (SELECT coalesce(json_agg(json_build_object('id', id, 'participantId', participant_id, 'formId', form_id, 'correctsId', corrects_id, 'clauses', clauses, 'createdAt', created_at)), '[]')
-            FROM consent_records WHERE study_id = $1 AND participant_id = ANY($2::uuid[])) AS records,
-         (SELECT coalesce(json_agg(json_build_object('participantId', participant_id, 'scope', scope, 'dataRemoved', data_removed)), '[]')
-            FROM withdrawals WHERE study_id = $1 AND participant_id = ANY($2::uuid[])) AS withdrawals,
-         (SELECT coalesce(json_agg(json_build_object('id', id, 'clauses', clauses)), '[]') FROM consent_forms WHERE study_id = $1) AS forms`,
-      [studyId, ids],
+    const [row]: DataUseRow[] = await this.dataSource.query(`SELECT ${dataUseColumns('$2::uuid[]')}`, [studyId, ids])
+    return policies(ids, row!)
+  }
+
+  /**
+   * The same for every participant with an approved transcript in the study (whose data coding could
+   * touch), finding them in the same round trip: the codebook, memos and themes ask on every request.
+   */
+  async dataUseOfTranscribed(studyId: string): Promise<Map<string, ReturnType<typeof dataUsePolicy>>> {
+    const [row]: (DataUseRow & { ids: string[] })[] = await this.dataSource.query(
+      `WITH transcribed AS (
+         SELECT coalesce(array_agg(DISTINCT participant_id), '{}') AS ids FROM transcripts WHERE study_id = $1 AND status = 'approved' AND purged_at IS NULL)
+       SELECT transcribed.ids::text[] AS ids, ${dataUseColumns('transcribed.ids')} FROM transcribed`,
+      [studyId],
     )
-    const records = row!.records.map((r) => ({ ...r, createdAt: new Date(r.createdAt) })) as unknown as ConsentRecord[]
-    const withdrawals = row!.withdrawals as Withdrawal[]
-    const forms = row!.forms as ConsentForm[]
-    const formById = new Map(forms.map((f) => [f.id, f]))
-    for (const id of ids) {
-      result.set(id, policyFor(records.filter((r) => r.participantId === id), withdrawals.find((w) => w.participantId === id) ?? null, formById))
-    }
-    return result
+    return policies(row!.ids, row!)
   }
 
   async view(studyId: string, participantId: string): Promise<ParticipantConsentView & { dataUse: ReturnType<typeof dataUsePolicy> }> {

@@ -22,6 +22,10 @@ import { Transcript } from './transcript.entity.js'
 
 const STAFF: readonly StudyRole[] = ['lead', 'coordinator']
 
+/** What a transcript summary shows: lists load only these columns (not the scanner's flags). */
+type SummaryRow = Pick<Transcript, 'id' | 'interviewId' | 'participantId' | 'version' | 'status' | 'format' | 'wordCount' | 'createdAt'>
+const SUMMARY_COLUMNS = { id: true, interviewId: true, participantId: true, version: true, status: true, format: true, wordCount: true, createdAt: true } as const
+
 function storageFailure(error: unknown): boolean {
   const e = error as { name?: string; code?: string; $metadata?: unknown }
   return Boolean(e?.$metadata) || ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE'].includes(e?.code ?? '') || e?.name === 'TimeoutError'
@@ -42,16 +46,22 @@ export class TranscriptService {
   /** approved texts by SHA-256, oldest first (a small first-in, first-out cache) */
   private readonly approvedTexts = new Map<string, string>()
 
-  private async summaries(rows: Transcript[]): Promise<TranscriptSummary[]> {
+  private async summaries(rows: SummaryRow[]): Promise<TranscriptSummary[]> {
     if (!rows.length) return []
-    const interviews = new Map((await this.dataSource.getRepository(Interview).findBy(rows.map((r) => ({ id: r.interviewId })))).map((i) => [i.id, i]))
-    const participants = new Map((await this.dataSource.getRepository(Participant).findBy(rows.map((r) => ({ id: r.participantId })))).map((p) => [p.id, p]))
-    return rows.map((t) => ({
+    // one round trip for each transcript's pseudonym and interview date (reading and listing transcripts ask on every request)
+    const found: { pseudonym: string | null; scheduled_at: Date | null }[] = await this.dataSource.query(
+      `SELECT p.pseudonym, i.scheduled_at
+         FROM unnest($1::uuid[], $2::uuid[]) WITH ORDINALITY AS x(interview_id, participant_id, n)
+         LEFT JOIN interviews i ON i.id = x.interview_id LEFT JOIN participants p ON p.id = x.participant_id
+        ORDER BY x.n`,
+      [rows.map((r) => r.interviewId), rows.map((r) => r.participantId)],
+    )
+    return rows.map((t, n) => ({
       id: t.id,
       interviewId: t.interviewId,
       participantId: t.participantId,
-      pseudonym: participants.get(t.participantId)?.pseudonym ?? '',
-      interviewDate: interviews.get(t.interviewId)?.scheduledAt.toISOString() ?? '',
+      pseudonym: found[n]?.pseudonym ?? '',
+      interviewDate: found[n]?.scheduled_at ? new Date(found[n]!.scheduled_at!).toISOString() : '',
       version: t.version,
       status: t.status,
       format: t.format,
@@ -69,7 +79,7 @@ export class TranscriptService {
   /** Lead and coordinators see every version in any state; coders only approved ones they may code. */
   async list(studyId: string, role: StudyRole | null): Promise<TranscriptSummary[]> {
     const staff = role !== null && STAFF.includes(role)
-    const rows = await this.dataSource.getRepository(Transcript).find({ where: { studyId, ...(staff ? {} : { status: 'approved' as const }) }, order: { createdAt: 'ASC' } })
+    const rows = await this.dataSource.getRepository(Transcript).find({ select: SUMMARY_COLUMNS, where: { studyId, ...(staff ? {} : { status: 'approved' as const }) }, order: { createdAt: 'ASC' } })
     const allowed = staff ? null : await this.codable(studyId, rows.map((r) => r.participantId))
     return this.summaries(allowed ? rows.filter((r) => allowed.has(r.participantId)) : rows)
   }
@@ -221,11 +231,13 @@ export class TranscriptService {
 
   /** The approved, de-identified text, for anyone who may read it and only while consent allows coding. */
   async read(studyId: string, transcriptId: string): Promise<TranscriptReading> {
-    const { text } = await this.codableText(studyId, transcriptId)
-    const row = await this.dataSource.getRepository(Transcript).findOneByOrFail({ id: transcriptId })
+    const { row, text } = await this.approved(studyId, transcriptId)
     const [summary] = await this.summaries([row])
-    const turns = await this.dataSource.getRepository(TranscriptTurn).find({ where: { transcriptId }, order: { position: 'ASC' } })
-    return { ...summary!, text, sha256: row.sha256!, turns: turns.map((t) => ({ speaker: t.speaker, startMs: t.startMs, start: t.start, end: t.end })) }
+    const turns: { speaker: string; start_ms: number | null; start_offset: number; end_offset: number }[] = await this.dataSource.query(
+      `SELECT speaker, start_ms, start_offset, end_offset FROM transcript_turns WHERE transcript_id = $1 ORDER BY position`,
+      [transcriptId],
+    )
+    return { ...summary!, text, sha256: row.sha256, turns: turns.map((t) => ({ speaker: t.speaker, startMs: t.start_ms, start: t.start_offset, end: t.end_offset })) }
   }
 
   /**
@@ -234,19 +246,37 @@ export class TranscriptService {
    * by its SHA-256: coding checks every excerpt against it.
    */
   async codableText(studyId: string, transcriptId: string): Promise<{ participantId: string; text: string }> {
-    // one plain query: coding asks for this on every excerpt it writes
-    const [row]: { participant_id: string; object_key: string; sha256: string }[] = await this.dataSource.query(
-      `SELECT participant_id, object_key, sha256 FROM transcripts WHERE id = $1 AND study_id = $2 AND status = 'approved' AND object_key IS NOT NULL`,
-      [transcriptId, studyId],
-    )
-    if (!row || !(await this.codable(studyId, [row.participant_id])).has(row.participant_id)) throw new NotFoundError('approved transcript')
-    let text = this.approvedTexts.get(row.sha256)
+    const { row, text } = await this.approved(studyId, transcriptId)
+    return { participantId: row.participantId, text }
+  }
+
+  private async approved(studyId: string, transcriptId: string): Promise<{ row: SummaryRow & { sha256: string }; text: string }> {
+    // one plain query: coding asks for this on every excerpt it writes, reading on every transcript it opens
+    const [found]: { id: string; interview_id: string; participant_id: string; version: number; status: Transcript['status']; format: string; word_count: number; created_at: Date; object_key: string; sha256: string }[] =
+      await this.dataSource.query(
+        `SELECT id, interview_id, participant_id, version, status, format, word_count, created_at, object_key, sha256
+           FROM transcripts WHERE id = $1 AND study_id = $2 AND status = 'approved' AND object_key IS NOT NULL`,
+        [transcriptId, studyId],
+      )
+    if (!found || !(await this.codable(studyId, [found.participant_id])).has(found.participant_id)) throw new NotFoundError('approved transcript')
+    let text = this.approvedTexts.get(found.sha256)
     if (text === undefined) {
-      text = (await this.storage.get(row.object_key, row.sha256)).toString('utf8')
+      text = (await this.storage.get(found.object_key, found.sha256)).toString('utf8')
       if (this.approvedTexts.size >= 32) this.approvedTexts.delete(this.approvedTexts.keys().next().value!)
-      this.approvedTexts.set(row.sha256, text)
+      this.approvedTexts.set(found.sha256, text)
     }
-    return { participantId: row.participant_id, text }
+    const row = {
+      id: found.id,
+      interviewId: found.interview_id,
+      participantId: found.participant_id,
+      version: found.version,
+      status: found.status,
+      format: found.format,
+      wordCount: found.word_count,
+      createdAt: new Date(found.created_at),
+      sha256: found.sha256,
+    }
+    return { row, text }
   }
 
   async terms(studyId: string): Promise<DeidentificationTerms> {
