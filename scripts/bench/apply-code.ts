@@ -5,11 +5,10 @@
  * percentiles come from every response's time (autocannon's own table has no p95). The server runs
  * in a child process (bench-server.ts) so the load generator does not share its event loop.
  */
-import { spawn } from 'node:child_process'
-import { createInterface } from 'node:readline'
 import autocannon from 'autocannon'
 import pg from 'pg'
 import { hashPassword } from '../../server/modules/auth/passwords.js'
+import { percentile, signIn, startServer, type Session } from './bench-clients.js'
 
 const CODERS = 20
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10)
@@ -22,11 +21,6 @@ interface Run {
   p95: number
   p99: number
   errors: number
-}
-
-function percentile(sorted: number[], p: number): number {
-  if (!sorted.length) return 0
-  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!
 }
 
 async function drive(port: number, path: string, headersFor: (client: number) => Record<string, string>, body: (() => string) | null, seconds = SECONDS, overallRate?: number): Promise<Run> {
@@ -59,44 +53,6 @@ async function drive(port: number, path: string, headersFor: (client: number) =>
   }
 }
 
-interface ServerInfo {
-  appPort: number
-  basePort: number
-  studyId: string
-  databaseUrl: string
-}
-
-/** Starts bench-server.ts in its own process and waits for its ports. */
-async function startServer(): Promise<{ info: ServerInfo; stop: () => Promise<void> }> {
-  const profile = process.env.BENCH_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_PROFILE}`] : []
-  const child = spawn(process.execPath, [...profile, '--import', 'tsx/esm', 'scripts/bench/bench-server.ts'], {
-    stdio: ['pipe', 'pipe', 'inherit'],
-    env: { ...process.env, TSX_TSCONFIG_PATH: 'tsconfig.server.json' },
-  })
-  const line = await new Promise<string>((resolve, reject) => {
-    createInterface({ input: child.stdout! }).once('line', resolve)
-    child.once('exit', (code) => reject(new Error(`bench server stopped (${code})`)))
-  })
-  const stop = () => new Promise<void>((resolve) => {
-    child.once('exit', () => resolve())
-    child.kill('SIGTERM')
-  })
-  return { info: JSON.parse(line) as ServerInfo, stop }
-}
-
-async function signIn(port: number, email: string, password: string): Promise<{ cookie: string; csrf: string }> {
-  const csrfRes = await fetch(`http://127.0.0.1:${port}/api/auth/csrf`)
-  const first = csrfRes.headers.get('set-cookie')!.split(';')[0]!
-  const { token } = (await csrfRes.json()) as { token: string }
-  const login = await fetch(`http://127.0.0.1:${port}/api/auth/login`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', 'x-csrf-token': token, cookie: first },
-    body: JSON.stringify({ email, password }),
-  })
-  if (login.status !== 200) throw new Error(`sign-in of ${email}: ${login.status}`)
-  return { cookie: login.headers.get('set-cookie')!.split(';')[0]!, csrf: login.headers.get('x-csrf-token') ?? token }
-}
-
 export async function runApplyCode(): Promise<void> {
   const server = await startServer()
   const db = new pg.Client({ connectionString: server.info.databaseUrl })
@@ -111,7 +67,7 @@ export async function runApplyCode(): Promise<void> {
       [passwordHash],
     )
     await dataSource.query(`INSERT INTO memberships (study_id, user_id, role) SELECT $1, unnest($2::uuid[]), 'coder'`, [studyId, users.map((u) => u.id)])
-    const sessions: { cookie: string; csrf: string }[] = []
+    const sessions: Session[] = []
     for (let i = 1; i <= CODERS; i++) sessions.push(await env.signIn(`coder${i}@bench.test`, 'bench coder passphrase for load'))
     const [transcript]: { id: string }[] = await dataSource.query(
       `SELECT t.id FROM transcripts t JOIN participants p ON p.id = t.participant_id WHERE t.study_id = $1 AND p.pseudonym = 'P02'`,

@@ -22,6 +22,7 @@ import { createMailTransport } from '../../server/modules/mail/mail-transport.js
 import { seedDemo } from '../../server/seed/demo.js'
 import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
 import { ObjectStore } from '../../server/storage/object-store.js'
+import { signIn as signInOn, type Session } from './bench-clients.js'
 
 export interface BenchEnvironment {
   appPort: number
@@ -31,7 +32,7 @@ export interface BenchEnvironment {
   studyId: string
   databaseUrl: string
   /** signs in and returns the session cookie and the CSRF token for writes */
-  signIn(email: string, password?: string): Promise<{ cookie: string; csrf: string }>
+  signIn(email: string, password?: string): Promise<Session>
   close(): Promise<void>
 }
 
@@ -92,18 +93,7 @@ export async function startBenchEnvironment(options: { clientDist?: string } = {
     cleanup.push(() => Promise.all(servers.map((s) => new Promise<void>((resolve) => { s.closeAllConnections(); s.close(() => resolve()) }))).then(() => {}))
     const [appPort, basePort] = servers.map((s) => (s.address() as { port: number }).port) as [number, number]
 
-    async function signIn(email: string, password = DEMO_PASSWORD) {
-      const csrfRes = await fetch(`http://127.0.0.1:${appPort}/api/auth/csrf`)
-      const first = csrfRes.headers.get('set-cookie')!.split(';')[0]!
-      const { token } = (await csrfRes.json()) as { token: string }
-      const login = await fetch(`http://127.0.0.1:${appPort}/api/auth/login`, {
-        method: 'POST',
-        headers: { 'content-type': 'application/json', 'x-csrf-token': token, cookie: first },
-        body: JSON.stringify({ email, password }),
-      })
-      if (login.status !== 200) throw new Error(`sign-in of ${email}: ${login.status}`)
-      return { cookie: login.headers.get('set-cookie')!.split(';')[0]!, csrf: login.headers.get('x-csrf-token') ?? token }
-    }
+    const signIn = (email: string, password = DEMO_PASSWORD) => signInOn(appPort, email, password)
     return { appPort, basePort, dataSource, storage, studyId, databaseUrl: url, signIn, close }
   } catch (error) {
     await close()

@@ -22,13 +22,12 @@
  * busier than people reading and coding) follows the flat-out one. The server runs in a child process
  * (bench-server.ts); BENCH_PROFILE=<dir> writes its CPU profile there.
  */
-import { spawn } from 'node:child_process'
 import { readdirSync, readFileSync } from 'node:fs'
-import { createInterface } from 'node:readline'
 import autocannon from 'autocannon'
 import pg from 'pg'
 import { normaliseRange } from '../../shared/coding/offsets.js'
 import { hashPassword } from '../../server/modules/auth/passwords.js'
+import { percentile, signIn, startServer, type Session } from './bench-clients.js'
 
 const SECONDS = Number(process.env.BENCH_SECONDS ?? 10)
 const PASSWORD = 'bench load passphrase for everyone'
@@ -48,10 +47,6 @@ const CODING_MIX: [Kind, number][] = [
 ]
 const COORDINATOR_MIX: [Kind, number][] = [['overview', 30], ['transcripts', 30], ['transcript', 40]]
 
-interface Session {
-  cookie: string
-  csrf: string
-}
 interface Transcript {
   id: string
   text: string
@@ -112,18 +107,6 @@ function weighted(random: () => number, mix: [Kind, number][]): Kind {
   return mix[mix.length - 1]![0]
 }
 
-function percentile(sorted: number[], p: number): number {
-  if (!sorted.length) return 0
-  return sorted[Math.min(sorted.length - 1, Math.ceil((p / 100) * sorted.length) - 1)]!
-}
-
-interface ServerInfo {
-  appPort: number
-  basePort: number
-  studyId: string
-  databaseUrl: string
-}
-
 /**
  * CPU seconds (user + system) used so far by the server process and by the bench's PostgreSQL (its
  * postmaster, the backends it has reaped, and the live ones), from /proc: work per request is a
@@ -162,37 +145,6 @@ function cpuSeconds(serverPid: number, pgPort: number): { server: number; postgr
   } catch {
     return null
   }
-}
-
-/** Starts bench-server.ts in its own process and waits for its ports. */
-async function startServer(): Promise<{ info: ServerInfo; pid: number; stop: () => Promise<void> }> {
-  const profile = process.env.BENCH_PROFILE ? ['--cpu-prof', `--cpu-prof-dir=${process.env.BENCH_PROFILE}`] : []
-  const child = spawn(process.execPath, [...profile, '--import', 'tsx/esm', 'scripts/bench/bench-server.ts'], {
-    stdio: ['pipe', 'pipe', 'inherit'],
-    env: { ...process.env, TSX_TSCONFIG_PATH: 'tsconfig.server.json' },
-  })
-  const line = await new Promise<string>((resolve, reject) => {
-    createInterface({ input: child.stdout! }).once('line', resolve)
-    child.once('exit', (code) => reject(new Error(`bench server stopped (${code})`)))
-  })
-  const stop = () => new Promise<void>((resolve) => {
-    child.once('exit', () => resolve())
-    child.kill('SIGTERM')
-  })
-  return { info: JSON.parse(line) as ServerInfo, pid: child.pid!, stop }
-}
-
-async function signIn(port: number, email: string): Promise<Session> {
-  const csrfRes = await fetch(`http://127.0.0.1:${port}/api/auth/csrf`)
-  const first = csrfRes.headers.get('set-cookie')!.split(';')[0]!
-  const { token } = (await csrfRes.json()) as { token: string }
-  const login = await fetch(`http://127.0.0.1:${port}/api/auth/login`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json', 'x-csrf-token': token, cookie: first },
-    body: JSON.stringify({ email, password: PASSWORD }),
-  })
-  if (login.status !== 200) throw new Error(`sign-in of ${email}: ${login.status}`)
-  return { cookie: login.headers.get('set-cookie')!.split(';')[0]!, csrf: login.headers.get('x-csrf-token') ?? token }
 }
 
 async function getJson<T>(port: number, path: string, session: Session): Promise<T> {
@@ -376,7 +328,7 @@ export async function runLoad(): Promise<void> {
     await db.query(`INSERT INTO memberships (study_id, user_id, role) SELECT $1, unnest($2::uuid[]), unnest($3::text[])`, [studyId, users.map((u) => u.id), ROLES])
     const people: Person[] = []
     for (let i = 0; i < USERS; i++) {
-      people.push({ id: users[i]!.id, role: ROLES[i]!, session: await signIn(appPort, `load${i + 1}@bench.test`), random: seeded(i + 1), mine: [], pending: { kind: 'overview' } })
+      people.push({ id: users[i]!.id, role: ROLES[i]!, session: await signIn(appPort, `load${i + 1}@bench.test`, PASSWORD), random: seeded(i + 1), mine: [], pending: { kind: 'overview' } })
     }
     const reader = people[0]!.session
     const listed = await getJson<{ transcripts: { id: string; status: string }[] }>(appPort, `/api/studies/${studyId}/transcripts`, reader)

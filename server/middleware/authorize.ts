@@ -9,8 +9,8 @@ export type Guard = RequestHandler & { access: Access }
 
 /**
  * The one guard: every route declares what it needs (shared/permissions.ts) and this middleware
- * decides. The caller's study role is read from the database on every request, so a removed member
- * loses access at once (ASVS 8.3.2).
+ * decides. The caller's study role is read from the database on every request (with the session when
+ * the study is in the path, auth/session.ts), so a removed member loses access at once (ASVS 8.3.2).
  */
 export function createAuthorize(dataSource: DataSource) {
   return function authorize(access: Access): Guard {
@@ -20,8 +20,12 @@ export function createAuthorize(dataSource: DataSource) {
       let role: StudyRole | null = null
       if (user && access.startsWith('study:')) {
         const studyId = String(req.params.studyId ?? '')
-        if (UUID.test(studyId)) {
-          // every study-scoped request: one plain query
+        const read = req.account
+        if (read && read.userId === user.id && read.studyId !== null && read.studyId === studyId) {
+          // read with the session at the start of this request, in the same statement (auth/session.ts)
+          role = read.role
+        } else if (UUID.test(studyId)) {
+          // else one plain query
           const [membership]: { role: StudyRole }[] = await dataSource.query('SELECT role FROM memberships WHERE study_id = $1 AND user_id = $2', [studyId, user.id])
           role = membership?.role ?? null
         }

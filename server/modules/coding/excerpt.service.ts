@@ -26,9 +26,10 @@ export class ExcerptService {
   ) {}
 
   async settings(studyId: string): Promise<CodingSettings> {
-    const study = await this.dataSource.getRepository(Study).findOne({ where: { id: studyId }, select: { id: true, coderComparison: true } })
+    // one plain query: listing a transcript's excerpts asks on every request
+    const [study]: { coder_comparison: boolean }[] = await this.dataSource.query('SELECT coder_comparison FROM studies WHERE id = $1', [studyId])
     if (!study) throw new NotFoundError('study')
-    return { coderComparison: study.coderComparison }
+    return { coderComparison: study.coder_comparison }
   }
 
   async setSettings(studyId: string, input: CodingSettings, actor: AuditActor): Promise<CodingSettings> {

@@ -109,6 +109,21 @@ export class ConsentService {
   }
 
   /**
+   * One row of the caller's own query (`select`: at most one row with a `participant_id` column; $1 is
+   * the study, the caller's parameters follow from $2) together with its participant's data use, in
+   * one round trip: reading and coding ask for an approved transcript and its consent on every request.
+   */
+  async rowWithDataUse<R extends { participant_id: string }>(studyId: string, select: string, params: unknown[]): Promise<{ row: R; use: ReturnType<typeof dataUsePolicy> } | null> {
+    const [found]: (R & DataUseRow)[] = await this.dataSource.query(
+      `WITH target AS (${select}) SELECT target.*, ${dataUseColumns('ARRAY[target.participant_id]')} FROM target`,
+      [studyId, ...params],
+    )
+    if (!found) return null
+    const { records, withdrawals, forms, ...row } = found
+    return { row: row as unknown as R, use: policies([found.participant_id], { records, withdrawals, forms }).get(found.participant_id)! }
+  }
+
+  /**
    * The same for every participant with an approved transcript in the study (whose data coding could
    * touch), finding them in the same round trip: the codebook, memos and themes ask on every request.
    */

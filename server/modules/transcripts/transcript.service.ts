@@ -26,6 +26,29 @@ const STAFF: readonly StudyRole[] = ['lead', 'coordinator']
 type SummaryRow = Pick<Transcript, 'id' | 'interviewId' | 'participantId' | 'version' | 'status' | 'format' | 'wordCount' | 'createdAt'>
 const SUMMARY_COLUMNS = { id: true, interviewId: true, participantId: true, version: true, status: true, format: true, wordCount: true, createdAt: true } as const
 
+interface ApprovedRow { id: string; interview_id: string; participant_id: string; version: number; status: Transcript['status']; format: string; word_count: number; created_at: Date; object_key: string; sha256: string }
+/** What reading a transcript adds to the approved row: the participant's pseudonym, the interview date, the turns in order. */
+interface ReadingRow {
+  pseudonym: string | null
+  scheduled_at: Date | string | null
+  turns: { speaker: string; start_ms: number | null; start_offset: number; end_offset: number }[]
+}
+
+function summaryOf(t: SummaryRow, found: { pseudonym: string | null; scheduled_at: Date | string | null } | undefined): TranscriptSummary {
+  return {
+    id: t.id,
+    interviewId: t.interviewId,
+    participantId: t.participantId,
+    pseudonym: found?.pseudonym ?? '',
+    interviewDate: found?.scheduled_at ? new Date(found.scheduled_at).toISOString() : '',
+    version: t.version,
+    status: t.status,
+    format: t.format,
+    wordCount: t.wordCount,
+    createdAt: t.createdAt.toISOString(),
+  }
+}
+
 function storageFailure(error: unknown): boolean {
   const e = error as { name?: string; code?: string; $metadata?: unknown }
   return Boolean(e?.$metadata) || ['ECONNREFUSED', 'ECONNRESET', 'ETIMEDOUT', 'EPIPE'].includes(e?.code ?? '') || e?.name === 'TimeoutError'
@@ -56,18 +79,7 @@ export class TranscriptService {
         ORDER BY x.n`,
       [rows.map((r) => r.interviewId), rows.map((r) => r.participantId)],
     )
-    return rows.map((t, n) => ({
-      id: t.id,
-      interviewId: t.interviewId,
-      participantId: t.participantId,
-      pseudonym: found[n]?.pseudonym ?? '',
-      interviewDate: found[n]?.scheduled_at ? new Date(found[n]!.scheduled_at!).toISOString() : '',
-      version: t.version,
-      status: t.status,
-      format: t.format,
-      wordCount: t.wordCount,
-      createdAt: t.createdAt.toISOString(),
-    }))
+    return rows.map((t, n) => summaryOf(t, found[n]))
   }
 
   /** What may be coded: only participants whose consent allows it (the one data-use policy). */
@@ -231,13 +243,9 @@ export class TranscriptService {
 
   /** The approved, de-identified text, for anyone who may read it and only while consent allows coding. */
   async read(studyId: string, transcriptId: string): Promise<TranscriptReading> {
-    const { row, text } = await this.approved(studyId, transcriptId)
-    const [summary] = await this.summaries([row])
-    const turns: { speaker: string; start_ms: number | null; start_offset: number; end_offset: number }[] = await this.dataSource.query(
-      `SELECT speaker, start_ms, start_offset, end_offset FROM transcript_turns WHERE transcript_id = $1 ORDER BY position`,
-      [transcriptId],
-    )
-    return { ...summary!, text, sha256: row.sha256, turns: turns.map((t) => ({ speaker: t.speaker, startMs: t.start_ms, start: t.start_offset, end: t.end_offset })) }
+    const { row, text, reading } = await this.approved(studyId, transcriptId, true)
+    const summary = summaryOf(row, reading!)
+    return { ...summary, text, sha256: row.sha256, turns: reading!.turns.map((t) => ({ speaker: t.speaker, startMs: t.start_ms, start: t.start_offset, end: t.end_offset })) }
   }
 
   /**
@@ -250,33 +258,44 @@ export class TranscriptService {
     return { participantId: row.participantId, text }
   }
 
-  private async approved(studyId: string, transcriptId: string): Promise<{ row: SummaryRow & { sha256: string }; text: string }> {
-    // one plain query: coding asks for this on every excerpt it writes, reading on every transcript it opens
-    const [found]: { id: string; interview_id: string; participant_id: string; version: number; status: Transcript['status']; format: string; word_count: number; created_at: Date; object_key: string; sha256: string }[] =
-      await this.dataSource.query(
-        `SELECT id, interview_id, participant_id, version, status, format, word_count, created_at, object_key, sha256
-           FROM transcripts WHERE id = $1 AND study_id = $2 AND status = 'approved' AND object_key IS NOT NULL`,
-        [transcriptId, studyId],
-      )
-    if (!found || !(await this.codable(studyId, [found.participant_id])).has(found.participant_id)) throw new NotFoundError('approved transcript')
-    let text = this.approvedTexts.get(found.sha256)
+  /**
+   * One round trip: the approved transcript, its participant's data use and, for reading, the
+   * pseudonym, interview date and turns (reading asks on every transcript it opens, coding on every
+   * excerpt it writes).
+   */
+  private async approved(studyId: string, transcriptId: string, forReading = false): Promise<{ row: SummaryRow & { sha256: string }; text: string; reading?: ReadingRow }> {
+    const found = await this.consent.rowWithDataUse<ApprovedRow & Partial<ReadingRow>>(
+      studyId,
+      `SELECT t.id, t.interview_id, t.participant_id, t.version, t.status, t.format, t.word_count, t.created_at, t.object_key, t.sha256
+              ${forReading
+                ? `, p.pseudonym, i.scheduled_at,
+                   (SELECT coalesce(json_agg(json_build_object('speaker', tt.speaker, 'start_ms', tt.start_ms, 'start_offset', tt.start_offset, 'end_offset', tt.end_offset) ORDER BY tt.position), '[]')
+                      FROM transcript_turns tt WHERE tt.transcript_id = t.id) AS turns`
+                : ''}
+         FROM transcripts t ${forReading ? 'LEFT JOIN interviews i ON i.id = t.interview_id LEFT JOIN participants p ON p.id = t.participant_id' : ''}
+        WHERE t.id = $2 AND t.study_id = $1 AND t.status = 'approved' AND t.object_key IS NOT NULL`,
+      [transcriptId],
+    )
+    if (!found || !found.use.mayCode) throw new NotFoundError('approved transcript')
+    const { row: r } = found
+    let text = this.approvedTexts.get(r.sha256)
     if (text === undefined) {
-      text = (await this.storage.get(found.object_key, found.sha256)).toString('utf8')
+      text = (await this.storage.get(r.object_key, r.sha256)).toString('utf8')
       if (this.approvedTexts.size >= 32) this.approvedTexts.delete(this.approvedTexts.keys().next().value!)
-      this.approvedTexts.set(found.sha256, text)
+      this.approvedTexts.set(r.sha256, text)
     }
     const row = {
-      id: found.id,
-      interviewId: found.interview_id,
-      participantId: found.participant_id,
-      version: found.version,
-      status: found.status,
-      format: found.format,
-      wordCount: found.word_count,
-      createdAt: new Date(found.created_at),
-      sha256: found.sha256,
+      id: r.id,
+      interviewId: r.interview_id,
+      participantId: r.participant_id,
+      version: r.version,
+      status: r.status,
+      format: r.format,
+      wordCount: r.word_count,
+      createdAt: new Date(r.created_at),
+      sha256: r.sha256,
     }
-    return { row, text }
+    return { row, text, ...(forReading ? { reading: { pseudonym: r.pseudonym ?? null, scheduled_at: r.scheduled_at ?? null, turns: r.turns ?? [] } } : {}) }
   }
 
   async terms(studyId: string): Promise<DeidentificationTerms> {
