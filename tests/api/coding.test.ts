@@ -355,3 +355,15 @@ describe('memos, search and matrices', () => {
     expect((await coder.get(`${base()}/codes`)).body.codes.every((c: { excerptCount: number }) => c.excerptCount === 0)).toBe(true)
   })
 })
+
+describe('search snippets keep the transcript’s own words', () => {
+  it('shows angle-bracket notes such as <inaudible> in the context, which PostgreSQL’s headline would drop as a tag', async () => {
+    const said = 'P: The evenings were long <inaudible> and the kettle was always on.'
+    await approvedTranscript(coordinator, lead, team.study.id, 'Ida Bracket', uniqueEmail('ida'), `Interviewer: And the evenings?\n${said}`)
+    const hits = (await lead.get(`${base()}/search?q=kettle&in=transcripts`)).body.hits as { context: string; highlights: [number, number][] }[]
+    expect(hits).toHaveLength(1)
+    expect(hits[0]!.context).toContain('long <inaudible> and the kettle')
+    const [[start, end]] = hits[0]!.highlights as [[number, number]]
+    expect(hits[0]!.context.slice(start, end)).toBe('kettle')
+  })
+})

@@ -342,8 +342,8 @@ beforeAll(async () => {
     { name: 'codebook: snapshots', as: 'coder', path: `${st}/codebook`, ready: P.F33, shows: ['F37'], act: (page) => page.getByRole('tab', { name: 'Snapshots' }).click() },
     { name: 'memos', as: 'coder', path: `${st}/memos`, shows: ['F38', 'F39'] },
     /*
-     * The hit's context comes from PostgreSQL's ts_headline, which leaves out anything shaped like an
-     * HTML tag; what is left must still be text: the template payload and the unquoted <img> survive.
+     * The hit's context is a short fragment around the matched word (PostgreSQL's ts_headline), so
+     * the two payloads that fall inside it are checked literally.
      */
     { name: 'search', as: 'coder', path: `${st}/search?q=evenings`, shows: [], literal: ['F31{{constructor.constructor(\'window.__xss="F31"\')()}}', "F31<img src=x onerror=alert('F31')>"] },
     { name: 'code matrices', as: 'coder', path: `${st}/matrices`, shows: ['F33'] },

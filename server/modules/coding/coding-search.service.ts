@@ -7,6 +7,13 @@ import type { CodingScope } from './coding-scope.js'
 const LIMIT = 100
 const START = '\uE000'
 const STOP = '\uE001'
+/**
+ * ts_headline's parser takes `<…>` for an HTML tag and drops it from the snippet, so a transcript's
+ * `<inaudible>` would vanish: the text goes in with `<` swapped for a private-use character (chr(57346))
+ * and comes back with it restored.
+ */
+const ANGLE = '\uE002'
+const HEADLINE_TEXT = `replace(f.text, '<', chr(57346))`
 const HEADLINE = `StartSel="${START}", StopSel="${STOP}", MaxWords=40, MinWords=12, ShortWord=2, MaxFragments=2, FragmentDelimiter=" … "`
 
 /** Turns ts_headline's marked text into plain text and [start, end) highlight offsets (rendered as text, never HTML). */
@@ -19,7 +26,7 @@ export function unmark(marked: string): { context: string; highlights: [number, 
     else if (ch === STOP) {
       if (open >= 0) highlights.push([open, context.length])
       open = -1
-    } else context += ch
+    } else context += ch === ANGLE ? '<' : ch
   }
   return { context, highlights }
 }
@@ -81,7 +88,7 @@ export class CodingSearchService {
           ORDER BY rank DESC, e.created_at LIMIT ${LIMIT})
        SELECT 'excerpt' AS kind, f.id, f.transcript_id, f.pseudonym, f.start_offset, f.end_offset, NULL AS speaker, u.name AS coder_name,
               (SELECT array_agg(x.code_id) FROM excerpt_codes x WHERE x.excerpt_id = f.id) AS code_ids,
-              ts_headline('english', f.text, websearch_to_tsquery('english', $3), $4) AS headline, f.total::int AS total
+              ts_headline('english', ${HEADLINE_TEXT}, websearch_to_tsquery('english', $3), $4) AS headline, f.total::int AS total
          FROM found f JOIN users u ON u.id = f.coder_id ORDER BY f.rank DESC`,
       params,
     )
@@ -100,7 +107,7 @@ export class CodingSearchService {
           WHERE ${where.join(' AND ')}
           ORDER BY rank DESC, p.pseudonym, tt.position LIMIT ${LIMIT})
        SELECT 'transcript' AS kind, NULL AS id, f.transcript_id, f.pseudonym, f.start_offset, f.end_offset, f.speaker, NULL AS coder_name, NULL AS code_ids,
-              ts_headline('english', f.text, websearch_to_tsquery('english', $3), $4) AS headline, f.total::int AS total
+              ts_headline('english', ${HEADLINE_TEXT}, websearch_to_tsquery('english', $3), $4) AS headline, f.total::int AS total
          FROM found f ORDER BY f.rank DESC`,
       params,
     )
