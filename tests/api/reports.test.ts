@@ -118,7 +118,7 @@ describe('quotes by theme', () => {
     expect(rows[1]![0]).toBe('Coming home, "at last"')
     expect(rows[1]![4]).toBe(said) // commas, quotes and non-Latin text survive; "=1+1" is not at the start so stays as written
     expect(rows.map((r) => r[4]).join(' ')).not.toContain('Nobody may quote')
-    expect(rows.at(-2)).toEqual(['(left out, counts only)', '', '', 'participant did not agree to be quoted', '1 excerpts'])
+    expect(rows.at(-2)).toEqual(['(left out, counts only)', '', '', 'participant did not agree to be quoted', '1 excerpt'])
 
     await tCoord.post(`${base}/participants/${quotable.participantId}/withdrawal`, { scope: 'withdraw_data', effectiveDate: new Date().toISOString().slice(0, 10), reason: 'Changed their mind' })
     const after = (await tCoder.get(`${base}/reports/quotes-by-theme`)).body

@@ -17,6 +17,8 @@ interface QuoteRow {
   characteristics: Record<string, string> | null
 }
 
+const excerpts = (n: number) => `${n} excerpt${n === 1 ? '' : 's'}`
+
 const QUERY = `SELECT t.id AS theme_id, t.name AS theme_name, t.status AS theme_status, e.text, e.participant_id, p.pseudonym, p.characteristics
                  FROM themes t JOIN theme_excerpts te ON te.theme_id = t.id JOIN excerpts e ON e.id = te.excerpt_id JOIN participants p ON p.id = e.participant_id
                 WHERE t.study_id = $1 AND e.text <> ''
@@ -99,8 +101,8 @@ export class QuoteExportService {
         lines = []
       }
     })
-    lines.push(['(left out, counts only)', '', '', 'participant did not agree to be quoted', `${leftOut.declined} excerpts`])
-    lines.push(['(left out, counts only)', '', '', 'participant withdrew their data', `${leftOut.withdrawn} excerpts`])
+    lines.push(['(left out, counts only)', '', '', 'participant did not agree to be quoted', excerpts(leftOut.declined)])
+    lines.push(['(left out, counts only)', '', '', 'participant withdrew their data', excerpts(leftOut.withdrawn)])
     await write(csvRows(lines))
   }
 }
