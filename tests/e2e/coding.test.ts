@@ -5,6 +5,7 @@ import { seedDemo } from '../../server/seed/demo.js'
 import { approvedTranscript } from '../support/interviews.js'
 import { Client } from '../support/test-app.js'
 import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { select } from './support/coding.js'
 
 /**
  * A coder selects a passage, applies two codes, reloads and finds them; the second coder sees none of
@@ -37,27 +38,6 @@ beforeAll(async () => {
   expect((await lead.put(`/api/studies/${studyId}/coding-settings`, { coderComparison: false })).status).toBe(200)
 })
 afterAll(() => e2e?.close())
-
-/** Selects `passage` in the reading text as a mouse drag would, and lets the view see the selection. */
-async function select(page: Page, passage: string): Promise<void> {
-  await page.evaluate((wanted) => {
-    const root = document.querySelector('[data-testid="coding-text"]')!
-    const walker = document.createTreeWalker(root, NodeFilter.SHOW_TEXT)
-    for (let node = walker.nextNode(); node; node = walker.nextNode()) {
-      const at = node.textContent!.indexOf(wanted)
-      if (at < 0) continue
-      const range = document.createRange()
-      range.setStart(node, at)
-      range.setEnd(node, at + wanted.length)
-      const selection = document.getSelection()!
-      selection.removeAllRanges()
-      selection.addRange(range)
-      node.parentElement!.dispatchEvent(new MouseEvent('mouseup', { bubbles: true }))
-      return
-    }
-    throw new Error(`passage not found in one text node: ${wanted}`)
-  }, passage)
-}
 
 async function chooseCode(page: Page, label: string): Promise<void> {
   const panel = page.getByTestId('coding-apply-panel')
