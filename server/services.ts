@@ -99,7 +99,7 @@ export function buildServices(deps: AppDeps) {
   const codeMatrices = new CodeMatrixService(dataSource, codingScope)
   const agreement = new AgreementService(dataSource, transcripts, codingScope, audit)
   const saturation = new SaturationService(dataSource, codingScope)
-  const themes = new ThemeService(dataSource, audit, codingScope, consent)
+  const themes = new ThemeService(dataSource, audit, codingScope)
   const reviewRounds = new ReviewRoundService(dataSource, audit, mail, boss, publicUrl)
   const partnerReview = new PartnerReviewService(dataSource, consent)
   const reports = new ReportsService(dataSource, agreement, saturation)

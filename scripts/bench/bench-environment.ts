@@ -46,10 +46,17 @@ export async function startBenchEnvironment(options: { clientDist?: string } = {
     for (const step of cleanup.reverse()) await step()
   }
   try {
+    if (process.env.BENCH_STATEMENTS) await preloadStatementStatistics(bin, path.join(workDir, 'pg'), pgPort)
     const admin = new pg.Client({ host: '127.0.0.1', port: pgPort, user: 'postgres', database: 'postgres' })
     await admin.connect()
     await admin.query('CREATE DATABASE bench')
     await admin.end()
+    if (process.env.BENCH_STATEMENTS) {
+      const bench = new pg.Client({ host: '127.0.0.1', port: pgPort, user: 'postgres', database: 'bench' })
+      await bench.connect()
+      await bench.query('CREATE EXTENSION IF NOT EXISTS pg_stat_statements')
+      await bench.end()
+    }
     const s3 = await startFakeS3(path.join(workDir, 's3'), 'bench')
     cleanup.push(() => s3.close())
     const url = `postgres://postgres@127.0.0.1:${pgPort}/bench`
@@ -98,5 +105,31 @@ export async function startBenchEnvironment(options: { clientDist?: string } = {
   } catch (error) {
     await close()
     throw error
+  }
+}
+
+/**
+ * BENCH_STATEMENTS=1: the cluster restarted with pg_stat_statements loaded (it must be preloaded at
+ * start), so a benchmark can print which statements cost PostgreSQL the most.
+ */
+async function preloadStatementStatistics(bin: string, dataDir: string, port: number): Promise<void> {
+  const admin = new pg.Client({ host: '127.0.0.1', port, user: 'postgres', database: 'postgres' })
+  await admin.connect()
+  try {
+    await admin.query(`ALTER SYSTEM SET shared_preload_libraries = 'pg_stat_statements'`)
+  } finally {
+    await admin.end()
+  }
+  stopCluster({ bin, dataDir })
+  await ensureCluster({ bin, dataDir, port, fast: true, log: () => {} })
+  // the module's own settings exist only once it is loaded
+  const loaded = new pg.Client({ host: '127.0.0.1', port, user: 'postgres', database: 'postgres' })
+  await loaded.connect()
+  try {
+    await loaded.query(`ALTER SYSTEM SET pg_stat_statements.track = 'all'`)
+    await loaded.query(`ALTER SYSTEM SET pg_stat_statements.track_planning = on`)
+    await loaded.query('SELECT pg_reload_conf()')
+  } finally {
+    await loaded.end()
   }
 }

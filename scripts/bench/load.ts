@@ -20,7 +20,8 @@
  * connections as the base of the throughput ratio. Targets: no errors, p95 under 100 ms, throughput at
  * least a quarter of the bare endpoint's. A paced run (2 requests per person per second, already far
  * busier than people reading and coding) follows the flat-out one. The server runs in a child process
- * (bench-server.ts); BENCH_PROFILE=<dir> writes its CPU profile there.
+ * (bench-server.ts); BENCH_PROFILE=<dir> writes its CPU profile there, and BENCH_STATEMENTS=1 prints the statements
+ * that cost PostgreSQL the most in the flat-out run (pg_stat_statements).
  */
 import { readdirSync, readFileSync } from 'node:fs'
 import autocannon from 'autocannon'
@@ -312,6 +313,23 @@ function row(name: string, run: Run): string {
   return `${name.padEnd(46)} ${n(run.perSecond, 8)} ${n(run.p50, 7)} ${n(run.p95, 7)} ${n(run.p99, 7)} ${String(run.errors).padStart(7)}`
 }
 
+/** BENCH_STATEMENTS=1: the statements that cost PostgreSQL the most since the last reset (pg_stat_statements). */
+async function costliestStatements(db: pg.Client, requests: number): Promise<{ query: string; perRequest: number; callsPerRequest: number; perCall: number; planShare: number; rowsPerCall: number }[]> {
+  const { rows } = await db.query<{ query: string; calls: string; time: number; plan: number; rows: string }>(
+    `SELECT query, calls, total_plan_time + total_exec_time AS time, total_plan_time AS plan, rows FROM pg_stat_statements
+      WHERE dbid = (SELECT oid FROM pg_database WHERE datname = current_database()) ORDER BY time DESC LIMIT 25`,
+  )
+  const n = Math.max(1, requests)
+  return rows.map((r) => ({
+    query: r.query.replace(/\s+/g, ' ').slice(0, 160),
+    perRequest: r.time / n,
+    callsPerRequest: Number(r.calls) / n,
+    perCall: r.time / Math.max(1, Number(r.calls)),
+    planShare: r.time ? r.plan / r.time : 0,
+    rowsPerCall: Number(r.rows) / Math.max(1, Number(r.calls)),
+  }))
+}
+
 export async function runLoad(): Promise<void> {
   const server = await startServer()
   const db = new pg.Client({ connectionString: server.info.databaseUrl })
@@ -370,7 +388,9 @@ export async function runLoad(): Promise<void> {
     await measured(() => driveApp(appPort, people, world, 2))
     await driveBaseline(basePort, USERS, 2)
     const base = await measured(() => driveBaseline(basePort, USERS, SECONDS))
+    if (process.env.BENCH_STATEMENTS) await db.query('SELECT pg_stat_statements_reset()')
     const app = await measured(() => driveApp(appPort, people, world, SECONDS))
+    const statements = process.env.BENCH_STATEMENTS ? await costliestStatements(db, app.requests) : []
     const paced = await measured(() => driveApp(appPort, people, world, SECONDS, USERS * PACED_PER_PERSON))
     const after = (await db.query<{ n: number }>(`SELECT count(*)::int AS n FROM excerpts WHERE study_id = $1`, [studyId])).rows[0]!.n
 
@@ -394,6 +414,11 @@ export async function runLoad(): Promise<void> {
     if (app.cpu && base.cpu) {
       const ms = (v: number) => (Number.isFinite(v) ? v.toFixed(2) : '?')
       console.log(`\nCPU per request (ms): flat out server ${ms(app.cpu.server)} + PostgreSQL ${ms(app.cpu.postgres)}; paced server ${ms(paced.cpu!.server)} + PostgreSQL ${ms(paced.cpu!.postgres)}; bare endpoint ${ms(base.cpu.server)}`)
+    }
+    if (statements.length) {
+      console.log('\nPostgreSQL statements of the flat-out run by time (planning + execution), per answered request:')
+      console.log(`${'ms/req'.padStart(7)} ${'calls/req'.padStart(9)} ${'ms/call'.padStart(8)} ${'planning'.padStart(8)} ${'rows/call'.padStart(9)}  statement`)
+      for (const s of statements) console.log(`${s.perRequest.toFixed(3).padStart(7)} ${s.callsPerRequest.toFixed(2).padStart(9)} ${s.perCall.toFixed(3).padStart(8)} ${`${(100 * s.planShare).toFixed(0)}%`.padStart(8)} ${s.rowsPerCall.toFixed(1).padStart(9)}  ${s.query}`)
     }
     const ratio = app.perSecond / base.perSecond
     const verdict = (ok: boolean) => (ok ? 'PASS' : 'MISS')

@@ -67,7 +67,8 @@ function throttledStore(PgStore: ReturnType<typeof connectPgSimple>, pool: Pool)
       this.reading = null
       if (!req) return super.get(sid, callback)
       const studyId = STUDY_PATH.exec(req.path)?.[1] ?? null
-      pool.query<SessionWithAccountRow>(SESSION_WITH_ACCOUNT, [sid, Math.ceil(Date.now() / 1000), studyId]).then(
+      // a named statement: each connection plans it once instead of on every request
+      pool.query<SessionWithAccountRow>({ name: 'session-with-account', text: SESSION_WITH_ACCOUNT, values: [sid, Math.ceil(Date.now() / 1000), studyId] }).then(
         ({ rows: [row] }) => {
           if (!row) return callback(null)
           let sess: session.SessionData

@@ -21,6 +21,26 @@ export async function lockCodebook(manager: EntityManager, studyId: string): Pro
   if (!study) throw new NotFoundError('study')
 }
 
+interface CodeRow {
+  id: string
+  parent_id: string | null
+  position: number
+  label: string
+  definition: string
+  when_to_use: string
+  when_not_to_use: string
+  example_excerpt_id: string | null
+  colour: string
+  status: Code['status']
+  merged_into_id: string | null
+  version: number
+  updated_at: Date
+  excerpt_count: number
+  example_transcript_id: string | null
+  example_text: string | null
+  example_pseudonym: string | null
+}
+
 /** The codebook: reading it with counts and examples, adding and changing codes. */
 export class CodeService {
   constructor(
@@ -29,27 +49,43 @@ export class CodeService {
     private readonly scope: CodingScope,
   ) {}
 
+  /**
+   * The codebook in two round trips: whose data may be counted (the consent policy), then every code
+   * with its excerpt count and its example in one plain statement (the codebook is read on every page
+   * of coding).
+   */
   async list(studyId: string): Promise<CodeDto[]> {
-    const [codes, usable] = await Promise.all([
-      this.dataSource.getRepository(Code).find({ where: { studyId }, order: { position: 'ASC', createdAt: 'ASC' } }),
-      this.scope.usableParticipants(studyId),
-    ])
-    const counts: { code_id: string; n: number }[] = await this.dataSource.query(
-      `SELECT ec.code_id, count(*)::int AS n FROM excerpt_codes ec JOIN excerpts e ON e.id = ec.excerpt_id
-        WHERE e.study_id = $1 AND e.participant_id = ANY($2::uuid[]) GROUP BY ec.code_id`,
+    const usable = await this.scope.usableParticipants(studyId)
+    const rows: CodeRow[] = await this.dataSource.query(
+      `SELECT c.id, c.parent_id, c.position, c.label, c.definition, c.when_to_use, c.when_not_to_use, c.example_excerpt_id, c.colour, c.status,
+              c.merged_into_id, c.version, c.updated_at, coalesce(n.n, 0) AS excerpt_count,
+              ex.transcript_id AS example_transcript_id, ex.text AS example_text, ex.pseudonym AS example_pseudonym
+         FROM codes c
+         LEFT JOIN (SELECT ec.code_id, count(*)::int AS n FROM excerpt_codes ec JOIN excerpts e ON e.id = ec.excerpt_id
+                     WHERE e.study_id = $1 AND e.participant_id = ANY($2::uuid[]) GROUP BY ec.code_id) n ON n.code_id = c.id
+         LEFT JOIN (SELECT e.id, e.transcript_id, e.text, p.pseudonym FROM excerpts e JOIN participants p ON p.id = e.participant_id
+                     WHERE e.study_id = $1 AND e.participant_id = ANY($2::uuid[])) ex ON ex.id = c.example_excerpt_id
+        WHERE c.study_id = $1
+        ORDER BY c.position ASC, c.created_at ASC`,
       [studyId, usable],
     )
-    const exampleIds = codes.map((c) => c.exampleExcerptId).filter((id): id is string => Boolean(id))
-    const examples: { id: string; transcript_id: string; text: string; pseudonym: string }[] = exampleIds.length
-      ? await this.dataSource.query(
-          `SELECT e.id, e.transcript_id, e.text, p.pseudonym FROM excerpts e JOIN participants p ON p.id = e.participant_id
-            WHERE e.id = ANY($1::uuid[]) AND e.study_id = $2 AND e.participant_id = ANY($3::uuid[])`,
-          [exampleIds, studyId, usable],
-        )
-      : []
-    const countOf = new Map(counts.map((c) => [c.code_id, c.n]))
-    const exampleOf = new Map(examples.map((e) => [e.id, { transcriptId: e.transcript_id, text: e.text.slice(0, 600), pseudonym: e.pseudonym }]))
-    return codes.map((c) => toDto(c, countOf.get(c.id) ?? 0, c.exampleExcerptId ? (exampleOf.get(c.exampleExcerptId) ?? null) : null))
+    return rows.map((r) => ({
+      id: r.id,
+      parentId: r.parent_id,
+      position: r.position,
+      label: r.label,
+      definition: r.definition,
+      whenToUse: r.when_to_use,
+      whenNotToUse: r.when_not_to_use,
+      exampleExcerptId: r.example_excerpt_id,
+      example: r.example_excerpt_id && r.example_text !== null ? { transcriptId: r.example_transcript_id!, text: r.example_text.slice(0, 600), pseudonym: r.example_pseudonym! } : null,
+      colour: r.colour,
+      status: r.status,
+      mergedIntoId: r.merged_into_id,
+      version: r.version,
+      excerptCount: r.excerpt_count,
+      updatedAt: new Date(r.updated_at).toISOString(),
+    }))
   }
 
   async one(studyId: string, codeId: string): Promise<CodeDto> {
@@ -116,25 +152,5 @@ export class CodeService {
       [excerptId, studyId, codeId],
     )
     if (!found.length) throw new UnprocessableError('The example must be an excerpt coded with this code.', [{ path: 'exampleExcerptId', message: 'Choose one of this code’s excerpts.' }])
-  }
-}
-
-export function toDto(c: Code, excerptCount: number, example: CodeDto['example']): CodeDto {
-  return {
-    id: c.id,
-    parentId: c.parentId,
-    position: c.position,
-    label: c.label,
-    definition: c.definition,
-    whenToUse: c.whenToUse,
-    whenNotToUse: c.whenNotToUse,
-    exampleExcerptId: c.exampleExcerptId,
-    example,
-    colour: c.colour,
-    status: c.status,
-    mergedIntoId: c.mergedIntoId,
-    version: c.version,
-    excerptCount,
-    updatedAt: c.updatedAt.toISOString(),
   }
 }

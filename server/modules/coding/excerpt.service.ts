@@ -7,10 +7,23 @@ import { ConflictError, ForbiddenError, NotFoundError, UnprocessableError } from
 import { Study } from '../studies/study.entity.js'
 import type { TranscriptService } from '../transcripts/transcript.service.js'
 import { User } from '../users/user.entity.js'
-import { Code } from './code.entity.js'
+import type { Code } from './code.entity.js'
 import type { CodingScope } from './coding-scope.js'
 import { Excerpt, ExcerptCode } from './excerpt.entity.js'
-import { updateWithVersion } from './versioned-update.js'
+import { staleError } from './versioned-update.js'
+
+interface ExcerptRow {
+  id: string
+  transcript_id: string
+  coder_id: string
+  start_offset: number
+  end_offset: number
+  text: string
+  version: number
+  created_at: Date
+  updated_at: Date
+  code_ids: string[]
+}
 
 /**
  * Excerpts: one coder's codes on a passage of one approved transcript version. A coder sees and
@@ -137,46 +150,87 @@ export class ExcerptService {
 
   async update(studyId: string, excerptId: string, input: ExcerptUpdate, me: Express.User): Promise<ExcerptDto> {
     const current = await this.own(studyId, excerptId, me)
-    const changes: Partial<Excerpt> = {}
+    const { text } = await this.transcripts.codableText(studyId, current.transcriptId)
+    let range: { start: number; end: number; text: string } | null = null
     if (input.start !== undefined || input.end !== undefined) {
-      const { text } = await this.transcripts.codableText(studyId, current.transcriptId)
       const start = input.start ?? current.start
       const end = input.end ?? current.end
       this.checkRange(text, start, end, input.text ?? text.slice(start, end))
-      Object.assign(changes, { start, end, text: text.slice(start, end) })
-    } else {
-      await this.transcripts.codableText(studyId, current.transcriptId)
+      range = { start, end, text: text.slice(start, end) }
     }
-    return this.dataSource.transaction(async (manager) => {
-      await updateWithVersion(manager, Excerpt, { id: excerptId, studyId }, input.version, changes, 'excerpt')
+    // the version check and the change in one statement, returning the row and (in the same snapshot)
+    // its codes; a change of codes follows in the same transaction
+    const versioned = `WITH saved AS (
+        UPDATE excerpts SET ${range ? 'start_offset = $4, end_offset = $5, text = $6, ' : ''}version = version + 1, updated_at = CURRENT_TIMESTAMP
+         WHERE id = $1 AND study_id = $2 AND version = $3
+        RETURNING id, transcript_id, coder_id, start_offset, end_offset, text, version, created_at, updated_at)
+      SELECT saved.*, ARRAY(SELECT code_id FROM excerpt_codes WHERE excerpt_id = $1) AS code_ids FROM saved`
+    const params = [excerptId, studyId, input.version, ...(range ? [range.start, range.end, range.text] : [])]
+    const apply = async (manager: EntityManager): Promise<ExcerptDto> => {
+      const [saved]: ExcerptRow[] = await manager.query(versioned, params)
+      if (!saved) await this.stale(manager, studyId, excerptId, input.version)
+      let codeIds = saved!.code_ids
       if (input.codeIds) {
-        const kept = await manager.findBy(ExcerptCode, { excerptId })
-        const added = input.codeIds.filter((id) => !kept.some((k) => k.codeId === id))
+        // read again after the row lock, as another change of this excerpt's codes may have committed meanwhile
+        const kept = ((await manager.query('SELECT code_id FROM excerpt_codes WHERE excerpt_id = $1', [excerptId])) as { code_id: string }[]).map((l) => l.code_id)
+        codeIds = kept
+        const added = input.codeIds.filter((id) => !kept.includes(id))
         await this.checkCodes(manager, studyId, added)
-        const removed = kept.filter((k) => !input.codeIds!.includes(k.codeId)).map((k) => k.codeId)
-        if (removed.length) await manager.delete(ExcerptCode, { excerptId, codeId: In(removed) })
-        if (added.length) await manager.insert(ExcerptCode, added.map((codeId) => ({ excerptId, codeId })))
+        const removed = kept.filter((id) => !input.codeIds!.includes(id))
+        if (removed.length || added.length) {
+          await manager.query(
+            `WITH gone AS (DELETE FROM excerpt_codes WHERE excerpt_id = $1 AND code_id = ANY($2::uuid[]))
+             INSERT INTO excerpt_codes (excerpt_id, code_id) SELECT $1, unnest($3::uuid[])`,
+            [excerptId, removed, added],
+          )
+          codeIds = ((await manager.query('SELECT code_id FROM excerpt_codes WHERE excerpt_id = $1', [excerptId])) as { code_id: string }[]).map((l) => l.code_id)
+        }
       }
-      const saved = await manager.findOneByOrFail(Excerpt, { id: excerptId })
-      return (await this.dtos(manager, [saved], me.name))[0]!
-    })
+      return {
+        id: saved!.id,
+        transcriptId: saved!.transcript_id,
+        coderId: saved!.coder_id,
+        coderName: me.name,
+        start: saved!.start_offset,
+        end: saved!.end_offset,
+        text: saved!.text,
+        codeIds,
+        version: saved!.version,
+        createdAt: new Date(saved!.created_at).toISOString(),
+        updatedAt: new Date(saved!.updated_at).toISOString(),
+      }
+    }
+    return input.codeIds ? this.dataSource.transaction(apply) : apply(this.dataSource.manager)
   }
 
   async remove(studyId: string, excerptId: string, version: number, me: Express.User): Promise<void> {
     await this.own(studyId, excerptId, me)
-    await this.dataSource.transaction(async (manager) => {
-      // the version check and the delete in one: a stale page cannot remove what someone just changed
-      await updateWithVersion(manager, Excerpt, { id: excerptId, studyId }, version, {}, 'excerpt')
-      await manager.query(`UPDATE codes SET example_excerpt_id = NULL WHERE example_excerpt_id = $1`, [excerptId])
-      await manager.delete(Excerpt, { id: excerptId })
-    })
+    // the version check, clearing it as a code's example, and the delete in one statement: a stale
+    // page cannot remove what someone just changed
+    const [gone]: { n: number }[] = await this.dataSource.query(
+      `WITH gone AS (DELETE FROM excerpts WHERE id = $1 AND study_id = $2 AND version = $3 RETURNING id),
+            unexample AS (UPDATE codes SET example_excerpt_id = NULL WHERE example_excerpt_id = $1 AND EXISTS (SELECT 1 FROM gone))
+       SELECT count(*)::int AS n FROM gone`,
+      [excerptId, studyId, version],
+    )
+    if (!gone!.n) await this.stale(this.dataSource.manager, studyId, excerptId, version)
   }
 
-  private async own(studyId: string, excerptId: string, me: Express.User): Promise<Excerpt> {
-    const row = await this.dataSource.getRepository(Excerpt).findOneBy({ id: excerptId, studyId })
+  /** Nothing changed: the excerpt is gone (404) or someone changed it first (409, with both versions). */
+  private async stale(manager: EntityManager, studyId: string, excerptId: string, sent: number): Promise<never> {
+    const [row]: { version: number }[] = await manager.query('SELECT version FROM excerpts WHERE id = $1 AND study_id = $2', [excerptId, studyId])
     if (!row) throw new NotFoundError('excerpt')
-    if (row.coderId !== me.id) throw new ForbiddenError('Each coder changes only their own excerpts. Add your own excerpt instead.')
-    return row
+    throw staleError('excerpt', sent, row.version)
+  }
+
+  private async own(studyId: string, excerptId: string, me: Express.User): Promise<{ transcriptId: string; start: number; end: number }> {
+    const [row]: { coder_id: string; transcript_id: string; start_offset: number; end_offset: number }[] = await this.dataSource.query(
+      'SELECT coder_id, transcript_id, start_offset, end_offset FROM excerpts WHERE id = $1 AND study_id = $2',
+      [excerptId, studyId],
+    )
+    if (!row) throw new NotFoundError('excerpt')
+    if (row.coder_id !== me.id) throw new ForbiddenError('Each coder changes only their own excerpts. Add your own excerpt instead.')
+    return { transcriptId: row.transcript_id, start: row.start_offset, end: row.end_offset }
   }
 
   private checkRange(text: string, start: number, end: number, quote: string): void {
@@ -187,7 +241,7 @@ export class ExcerptService {
   /** Codes must be this study's, and active: retired and merged codes take no new excerpts. */
   private async checkCodes(manager: EntityManager, studyId: string, codeIds: string[]): Promise<void> {
     if (!codeIds.length) return
-    const codes = await manager.find(Code, { where: { id: In(codeIds), studyId }, select: { id: true, label: true, status: true } })
+    const codes: { id: string; label: string; status: Code['status'] }[] = await manager.query('SELECT id, label, status FROM codes WHERE id = ANY($1::uuid[]) AND study_id = $2', [codeIds, studyId])
     if (codes.length !== codeIds.length) throw new UnprocessableError('One of the codes is not in this study’s codebook. Reload the codebook and choose again.', [{ path: 'codeIds', message: 'Choose codes from this codebook.' }])
     const closed = codes.find((c) => c.status !== 'active')
     if (closed) throw new UnprocessableError(`“${closed.label}” is ${closed.status === 'retired' ? 'retired' : 'merged into another code'} and takes no new excerpts. Choose an active code.`, [{ path: 'codeIds', message: 'Choose active codes.' }])

@@ -126,11 +126,13 @@ export class ConsentService {
   /**
    * The same for every participant with an approved transcript in the study (whose data coding could
    * touch), finding them in the same round trip: the codebook, memos and themes ask on every request.
+   * `withPurged` also counts approved transcripts whose data was since purged (the transcript list
+   * still lists those).
    */
-  async dataUseOfTranscribed(studyId: string): Promise<Map<string, ReturnType<typeof dataUsePolicy>>> {
+  async dataUseOfTranscribed(studyId: string, options: { withPurged?: boolean } = {}): Promise<Map<string, ReturnType<typeof dataUsePolicy>>> {
     const [row]: (DataUseRow & { ids: string[] })[] = await this.dataSource.query(
       `WITH transcribed AS (
-         SELECT coalesce(array_agg(DISTINCT participant_id), '{}') AS ids FROM transcripts WHERE study_id = $1 AND status = 'approved' AND purged_at IS NULL)
+         SELECT coalesce(array_agg(DISTINCT participant_id), '{}') AS ids FROM transcripts WHERE study_id = $1 AND status = 'approved' ${options.withPurged ? '' : 'AND purged_at IS NULL'})
        SELECT transcribed.ids::text[] AS ids, ${dataUseColumns('transcribed.ids')} FROM transcribed`,
       [studyId],
     )

@@ -69,10 +69,44 @@ export class StudyService {
     return { studies: rows.map((row) => ({ ...this.toDto(row), myRole: roles.get(row.id) ?? null })) }
   }
 
-  async get(studyId: string, manager?: EntityManager): Promise<StudyDto> {
-    const [row] = await this.rows(this.baseQuery(manager).where('s.id = :studyId', { studyId }))
+  /** One study in one plain statement with only the columns shown (the overview is read on every visit). */
+  async get(studyId: string, manager: EntityManager = this.dataSource.manager): Promise<StudyDto> {
+    const [row]: {
+      id: string
+      code: string
+      title: string
+      summary: string
+      ethics_board: string
+      ethics_reference: string
+      approval_date: string | null
+      approval_expiry: string | null
+      target_sample_size: number | null
+      lead_name: string | null
+      member_count: number
+      created_at: Date
+    }[] = await manager.query(
+      `SELECT s.id, s.code, s.title, s.summary, s.ethics_board, s.ethics_reference, s.approval_date::text AS approval_date, s.approval_expiry::text AS approval_expiry,
+              s.target_sample_size, s.created_at,
+              (SELECT u.name FROM memberships m JOIN users u ON u.id = m.user_id WHERE m.study_id = s.id AND m.role = 'lead' ORDER BY m.created_at LIMIT 1) AS lead_name,
+              (SELECT count(*)::int FROM memberships m WHERE m.study_id = s.id) AS member_count
+         FROM studies s WHERE s.id = $1`,
+      [studyId],
+    )
     if (!row) throw new NotFoundError('study')
-    return this.toDto(row)
+    return {
+      id: row.id,
+      code: row.code,
+      title: row.title,
+      summary: row.summary,
+      ethicsBoard: row.ethics_board,
+      ethicsReference: row.ethics_reference,
+      approvalDate: row.approval_date,
+      approvalExpiry: row.approval_expiry,
+      targetSampleSize: row.target_sample_size,
+      leadName: row.lead_name,
+      memberCount: row.member_count,
+      createdAt: new Date(row.created_at).toISOString(),
+    }
   }
 
   async create(input: StudyCreate, actor: AuditActor): Promise<StudyDto> {

@@ -1,12 +1,27 @@
-import { In, IsNull, type DataSource, type EntityManager } from 'typeorm'
+import { IsNull, type DataSource, type EntityManager } from 'typeorm'
 import { readability } from '../../../shared/readability/index.js'
-import type { Theme as ThemeDto, ThemeCreate, ThemeOrder, ThemeUpdate } from '../../../shared/schemas/themes.js'
+import type { Theme as ThemeDto, ThemeCreate, ThemeOrder, ThemeStatus, ThemeUpdate } from '../../../shared/schemas/themes.js'
 import { ConflictError, NotFoundError, UnprocessableError } from '../../lib/errors.js'
 import type { AuditActor, AuditService } from '../audit/audit.service.js'
-import type { ConsentService } from '../consent/consent.service.js'
 import type { CodingScope } from '../coding/coding-scope.js'
 import { updateWithVersion } from '../coding/versioned-update.js'
 import { Theme, ThemeCode, ThemeExcerpt } from './theme.entity.js'
+
+interface ThemeRow {
+  id: string
+  parent_id: string | null
+  position: number
+  name: string
+  description: string
+  plain_description: string
+  status: ThemeStatus
+  version: number
+  updated_at: Date
+  code_ids: string[]
+  support_excerpts: number | null
+  support_participants: number | null
+  in_open_round: boolean
+}
 
 /**
  * Themes for the team: built from codes, with supporting excerpts the lead chooses and marks as
@@ -18,53 +33,54 @@ export class ThemeService {
     private readonly dataSource: DataSource,
     private readonly audit: AuditService,
     private readonly scope: CodingScope,
-    private readonly consent: ConsentService,
   ) {}
 
+  /**
+   * Every theme with its codes, support, chosen excerpts and whether an open review round holds it:
+   * whose data may be used first (the consent policy, which also says whether partners may see a
+   * participant's excerpts), then the themes and their chosen excerpts in two plain statements side
+   * by side (the themes page and the coding view's theme panel read this on every visit).
+   */
   async list(studyId: string): Promise<ThemeDto[]> {
-    const themes = await this.dataSource.getRepository(Theme).find({ where: { studyId }, order: { position: 'ASC', createdAt: 'ASC' } })
-    if (!themes.length) return []
-    const ids = themes.map((t) => t.id)
-    const usable = await this.scope.usableParticipants(studyId)
-    const [codes, chosen, support, open] = await Promise.all([
-      this.dataSource.getRepository(ThemeCode).find({ where: { themeId: In(ids) } }),
+    const { usable, uses } = await this.scope.usableWithDataUse(studyId)
+    const [themes, chosen] = await Promise.all([
+      this.dataSource.query(
+        `SELECT t.id, t.parent_id, t.position, t.name, t.description, t.plain_description, t.status, t.version, t.updated_at,
+                (SELECT coalesce(array_agg(tc.code_id), '{}') FROM theme_codes tc WHERE tc.theme_id = t.id) AS code_ids,
+                s.excerpts AS support_excerpts, s.participants AS support_participants,
+                EXISTS (SELECT 1 FROM review_round_themes rt JOIN review_rounds r ON r.id = rt.round_id WHERE rt.theme_id = t.id AND r.study_id = $1 AND r.status = 'open') AS in_open_round
+           FROM themes t
+           LEFT JOIN (SELECT tc.theme_id, count(DISTINCT e.id)::int AS excerpts, count(DISTINCT e.participant_id)::int AS participants
+                        FROM theme_codes tc JOIN themes th ON th.id = tc.theme_id JOIN excerpt_codes x ON x.code_id = tc.code_id JOIN excerpts e ON e.id = x.excerpt_id
+                       WHERE th.study_id = $1 AND e.participant_id = ANY($2::uuid[]) GROUP BY tc.theme_id) s ON s.theme_id = t.id
+          WHERE t.study_id = $1
+          ORDER BY t.position ASC, t.created_at ASC`,
+        [studyId, usable],
+      ) as Promise<ThemeRow[]>,
       this.dataSource.query(
         `SELECT te.theme_id, te.excerpt_id, te.share_with_partners, e.text, e.transcript_id, e.start_offset, e.participant_id, p.pseudonym
-           FROM theme_excerpts te JOIN excerpts e ON e.id = te.excerpt_id JOIN participants p ON p.id = e.participant_id
-          WHERE te.theme_id = ANY($1::uuid[]) AND e.participant_id = ANY($2::uuid[]) ORDER BY te.position`,
-        [ids, usable],
+           FROM theme_excerpts te JOIN themes th ON th.id = te.theme_id JOIN excerpts e ON e.id = te.excerpt_id JOIN participants p ON p.id = e.participant_id
+          WHERE th.study_id = $1 AND e.participant_id = ANY($2::uuid[]) ORDER BY te.position`,
+        [studyId, usable],
       ) as Promise<{ theme_id: string; excerpt_id: string; share_with_partners: boolean; text: string; transcript_id: string; start_offset: number; participant_id: string; pseudonym: string }[]>,
-      this.dataSource.query(
-        `SELECT tc.theme_id, count(DISTINCT e.id)::int AS excerpts, count(DISTINCT e.participant_id)::int AS participants
-           FROM theme_codes tc JOIN excerpt_codes x ON x.code_id = tc.code_id JOIN excerpts e ON e.id = x.excerpt_id
-          WHERE tc.theme_id = ANY($1::uuid[]) AND e.participant_id = ANY($2::uuid[]) GROUP BY tc.theme_id`,
-        [ids, usable],
-      ) as Promise<{ theme_id: string; excerpts: number; participants: number }[]>,
-      this.dataSource.query(
-        `SELECT DISTINCT rt.theme_id FROM review_round_themes rt JOIN review_rounds r ON r.id = rt.round_id WHERE r.study_id = $1 AND r.status = 'open'`,
-        [studyId],
-      ) as Promise<{ theme_id: string }[]>,
     ])
-    const uses = await this.consent.dataUseFor(studyId, chosen.map((c) => c.participant_id))
-    const supportOf = new Map(support.map((s) => [s.theme_id, { participants: s.participants, excerpts: s.excerpts }]))
-    const inOpen = new Set(open.map((o) => o.theme_id))
     return themes.map((t) => ({
       id: t.id,
-      parentId: t.parentId,
+      parentId: t.parent_id,
       position: t.position,
       name: t.name,
       description: t.description,
-      plainDescription: t.plainDescription,
-      plainGrade: gradeOf(t.plainDescription),
+      plainDescription: t.plain_description,
+      plainGrade: gradeOf(t.plain_description),
       status: t.status,
-      codeIds: codes.filter((c) => c.themeId === t.id).map((c) => c.codeId),
+      codeIds: t.code_ids,
       excerpts: chosen
         .filter((c) => c.theme_id === t.id)
         .map((c) => ({ excerptId: c.excerpt_id, shareWithPartners: c.share_with_partners, text: c.text, pseudonym: c.pseudonym, transcriptId: c.transcript_id, start: c.start_offset, mayShowPartners: uses.get(c.participant_id)?.mayShowPartners ?? false })),
-      support: supportOf.get(t.id) ?? { participants: 0, excerpts: 0 },
-      inOpenRound: inOpen.has(t.id),
+      support: t.support_excerpts === null ? { participants: 0, excerpts: 0 } : { participants: t.support_participants!, excerpts: t.support_excerpts },
+      inOpenRound: t.in_open_round,
       version: t.version,
-      updatedAt: t.updatedAt.toISOString(),
+      updatedAt: new Date(t.updated_at).toISOString(),
     }))
   }
 
@@ -147,7 +163,15 @@ export class ThemeService {
   }
 }
 
+/** grades already worked out, by text (first in, first out): the same descriptions are graded on every list */
+const grades = new Map<string, number | null>()
+
 function gradeOf(text: string): number | null {
+  const known = grades.get(text)
+  if (known !== undefined) return known
   const result = text.trim() ? readability(text) : null
-  return result ? Math.round(result.grade * 10) / 10 : null
+  const grade = result ? Math.round(result.grade * 10) / 10 : null
+  if (grades.size >= 1000) grades.delete(grades.keys().next().value!)
+  grades.set(text, grade)
+  return grade
 }

@@ -24,7 +24,6 @@ const STAFF: readonly StudyRole[] = ['lead', 'coordinator']
 
 /** What a transcript summary shows: lists load only these columns (not the scanner's flags). */
 type SummaryRow = Pick<Transcript, 'id' | 'interviewId' | 'participantId' | 'version' | 'status' | 'format' | 'wordCount' | 'createdAt'>
-const SUMMARY_COLUMNS = { id: true, interviewId: true, participantId: true, version: true, status: true, format: true, wordCount: true, createdAt: true } as const
 
 interface ApprovedRow { id: string; interview_id: string; participant_id: string; version: number; status: Transcript['status']; format: string; word_count: number; created_at: Date; object_key: string; sha256: string }
 /** What reading a transcript adds to the approved row: the participant's pseudonym, the interview date, the turns in order. */
@@ -82,18 +81,29 @@ export class TranscriptService {
     return rows.map((t, n) => summaryOf(t, found[n]))
   }
 
-  /** What may be coded: only participants whose consent allows it (the one data-use policy). */
-  private async codable(studyId: string, participantIds: string[]): Promise<Set<string>> {
-    const uses = await this.consent.dataUseFor(studyId, participantIds)
-    return new Set([...uses].filter(([, use]) => use.mayCode).map(([id]) => id))
-  }
-
   /** Lead and coordinators see every version in any state; coders only approved ones they may code. */
   async list(studyId: string, role: StudyRole | null): Promise<TranscriptSummary[]> {
     const staff = role !== null && STAFF.includes(role)
-    const rows = await this.dataSource.getRepository(Transcript).find({ select: SUMMARY_COLUMNS, where: { studyId, ...(staff ? {} : { status: 'approved' as const }) }, order: { createdAt: 'ASC' } })
-    const allowed = staff ? null : await this.codable(studyId, rows.map((r) => r.participantId))
-    return this.summaries(allowed ? rows.filter((r) => allowed.has(r.participantId)) : rows)
+    // one plain statement for the list with each pseudonym and interview date, beside (for coders) the
+    // data use of every participant it can hold: the transcript list is read on every visit
+    const [rows, uses] = await Promise.all([
+      this.dataSource.query(
+        `SELECT t.id, t.interview_id, t.participant_id, t.version, t.status, t.format, t.word_count, t.created_at, p.pseudonym, i.scheduled_at
+           FROM transcripts t LEFT JOIN interviews i ON i.id = t.interview_id LEFT JOIN participants p ON p.id = t.participant_id
+          WHERE t.study_id = $1 ${staff ? '' : `AND t.status = 'approved'`}
+          ORDER BY t.created_at ASC`,
+        [studyId],
+      ) as Promise<(Omit<ApprovedRow, 'object_key' | 'sha256'> & { pseudonym: string | null; scheduled_at: Date | null })[]>,
+      staff ? null : this.consent.dataUseOfTranscribed(studyId, { withPurged: true }),
+    ])
+    return rows
+      .filter((r) => !uses || uses.get(r.participant_id)?.mayCode)
+      .map((r) =>
+        summaryOf(
+          { id: r.id, interviewId: r.interview_id, participantId: r.participant_id, version: r.version, status: r.status, format: r.format, wordCount: r.word_count, createdAt: new Date(r.created_at) },
+          r,
+        ),
+      )
   }
 
   async upload(studyId: string, interviewId: string, buffer: Buffer, actor: AuditActor): Promise<TranscriptSummary> {
