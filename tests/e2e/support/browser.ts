@@ -43,7 +43,7 @@ export async function startE2E(): Promise<E2E> {
     async newPage() {
       await browser.clearCookies()
       const page = await browser.newPage()
-      page.setDefaultTimeout(15_000)
+      page.setDefaultTimeout(30_000) // generous: the browser shares two cores with the server and PostgreSQL
       return page
     },
     async close() {
@@ -63,6 +63,8 @@ export async function screenshot(page: Page, name: string): Promise<void> {
 export async function seriousA11yViolations(page: Page): Promise<string[]> {
   // scan the settled page: an element half-way through a fade has a lower contrast than it will keep
   await page.waitForFunction(() => !document.querySelector('[class*="-transition-enter-active"], [class*="-transition-leave-active"]'))
+  // a notification fades in and out by opacity: wait until each one shown is fully there
+  await page.waitForFunction(() => Array.from(document.querySelectorAll('.v-snackbar__wrapper')).every((w) => (w as HTMLElement).offsetParent === null || getComputedStyle(w).opacity === '1'), undefined, { timeout: 10_000 })
   const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze()
   return result.violations
     .filter((v) => v.impact === 'serious' || v.impact === 'critical')
