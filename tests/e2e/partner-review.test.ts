@@ -37,7 +37,7 @@ describe('patient partner review', () => {
     await dialog.getByRole('button', { name: 'Open the round' }).click()
     await lead.getByText(/e-mailed/).first().waitFor()
 
-    const mail = await waitForMail('partner@heardwell.test', /Themes to read/)
+    const mail = await waitForMail('partner@heardwell.test', /Themes to read/, 15_000, `/studies/${studyId}/review/`)
     const link = mail.text.match(/https?:\/\/\S+\/studies\/\S+\/review\/[0-9a-f-]+/)![0]
     const roundPath = new URL(link).pathname
     const partner = await e2e.newPage()

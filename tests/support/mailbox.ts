@@ -1,11 +1,16 @@
 import { inject } from 'vitest'
 import { readMailbox, type StoredMail } from '../../server/fakes/mailbox-store.js'
 
-/** Waits until the fake SMTP server has received a message for `to` (optionally matching the subject). */
-export async function waitForMail(to: string, subject?: RegExp, timeoutMs = 15_000): Promise<StoredMail> {
+/**
+ * Waits until the fake SMTP server has received a message for `to` (optionally matching the subject,
+ * and holding `containing` in its text). The mailbox is shared by every test file of a run, and demo
+ * accounts have the same address in every file's database, so pass `containing` (e.g. this study's id)
+ * when another file may have mailed the same person.
+ */
+export async function waitForMail(to: string, subject?: RegExp, timeoutMs = 15_000, containing?: string): Promise<StoredMail> {
   const deadline = Date.now() + timeoutMs
   while (Date.now() < deadline) {
-    const found = mailsTo(to).find((m) => !subject || subject.test(m.subject))
+    const found = mailsTo(to).find((m) => (!subject || subject.test(m.subject)) && (!containing || m.text.includes(containing)))
     if (found) return found
     await new Promise((resolve) => setTimeout(resolve, 200))
   }
