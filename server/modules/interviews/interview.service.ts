@@ -169,11 +169,10 @@ export class InterviewService {
   }
 
   private async people(manager: EntityManager, interview: Interview) {
-    const [contact, interviewer, study] = await Promise.all([
-      manager.findOneBy(ParticipantContact, { participantId: interview.participantId }),
-      manager.findOneByOrFail(User, { id: interview.interviewerId }),
-      manager.findOneByOrFail(Study, { id: interview.studyId }),
-    ])
+    // one after the other: this runs inside the booking's transaction, on one connection
+    const contact = await manager.findOneBy(ParticipantContact, { participantId: interview.participantId })
+    const interviewer = await manager.findOneByOrFail(User, { id: interview.interviewerId })
+    const study = await manager.findOneByOrFail(Study, { id: interview.studyId })
     const to = [{ email: interviewer.email, name: interviewer.name, timeZone: interview.interviewerTimeZone }]
     if (contact?.email) to.unshift({ email: contact.email, name: contact.name, timeZone: interview.participantTimeZone })
     return { to, study }

@@ -41,7 +41,9 @@ export class ReviewRoundService {
   }
 
   private async summary(manager: EntityManager, round: ReviewRound, partnerCount?: number): Promise<RoundSummary> {
-    const [themes, partners] = await Promise.all([manager.count(ReviewRoundTheme, { where: { roundId: round.id } }), partnerCount ?? this.partners(manager, round.studyId).then((p) => p.length)])
+    // one after the other: `manager` may be a transaction's, and one connection runs one query at a time
+    const themes = await manager.count(ReviewRoundTheme, { where: { roundId: round.id } })
+    const partners = partnerCount ?? (await this.partners(manager, round.studyId)).length
     const done: { n: number }[] = await manager.query(
       `SELECT count(*)::int AS n FROM (SELECT partner_id FROM partner_answers WHERE round_id = $1 AND submitted_at IS NOT NULL GROUP BY partner_id HAVING count(*) >= $2) d`,
       [round.id, themes],
