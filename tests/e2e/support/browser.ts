@@ -61,10 +61,19 @@ export async function screenshot(page: Page, name: string): Promise<void> {
 
 /** axe-core scan; returns the serious and critical violations, described for a failure message. */
 export async function seriousA11yViolations(page: Page): Promise<string[]> {
-  // scan the settled page: an element half-way through a fade has a lower contrast than it will keep
-  await page.waitForFunction(() => !document.querySelector('[class*="-transition-enter-active"], [class*="-transition-leave-active"]'))
-  // a notification fades in and out by opacity: wait until each one shown is fully there
-  await page.waitForFunction(() => Array.from(document.querySelectorAll('.v-snackbar__wrapper')).every((w) => (w as HTMLElement).offsetParent === null || getComputedStyle(w).opacity === '1'), undefined, { timeout: 10_000 })
+  // scan the settled page: an element half-way through a fade has a lower contrast than it will keep.
+  // A notification may appear just after the last request ends, so the page must stay still for two
+  // looks in a row, 150 ms apart.
+  let still = 0
+  for (let look = 0; look < 60 && still < 2; look++) {
+    const moving = await page.evaluate(
+      () =>
+        Boolean(document.querySelector('[class*="-transition-enter-active"], [class*="-transition-leave-active"]')) ||
+        Array.from(document.querySelectorAll('.v-snackbar__wrapper')).some((w) => (w as HTMLElement).offsetParent !== null && getComputedStyle(w).opacity !== '1'),
+    )
+    still = moving ? 0 : still + 1
+    if (still < 2) await page.waitForTimeout(150)
+  }
   const result = await new AxeBuilder({ page }).withTags(['wcag2a', 'wcag2aa', 'wcag21a', 'wcag21aa', 'wcag22aa']).analyze()
   return result.violations
     .filter((v) => v.impact === 'serious' || v.impact === 'critical')
