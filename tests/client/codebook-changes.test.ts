@@ -3,7 +3,7 @@ import type { Code, SnapshotCode } from '@shared/schemas/coding'
 import CodebookView from '@/views/coding/CodebookView.vue'
 import CodebookMergeDialog from '@/components/coding/CodebookMergeDialog.vue'
 import CodebookSnapshotDiff from '@/components/coding/CodebookSnapshotDiff.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const code = (over: Partial<Code> & Pick<Code, 'id' | 'label'>): Code => ({
   parentId: null,
@@ -22,8 +22,6 @@ const code = (over: Partial<Code> & Pick<Code, 'id' | 'label'>): Code => ({
   ...over,
 })
 
-const viewport = { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} }
-
 describe('changing the codebook', () => {
   afterEach(() => {
     vi.unstubAllGlobals()
@@ -37,7 +35,7 @@ describe('changing the codebook', () => {
       'GET /api/auth/csrf': { status: 200, body: { token: 'csrf-1' } },
       'POST /api/studies/study-1/codes/tired/merge': { status: 200, body: { codes: [{ ...tired, status: 'merged', mergedIntoId: 'fatigue' }, fatigue] } },
     })
-    vi.stubGlobal('visualViewport', viewport)
+    stubVisualViewport()
     const app = createTestApp()
     signInAs('coder')
     const { wrapper } = await mountView(CodebookMergeDialog, { app, path: '/studies/study-1/codebook', props: { studyId: 'study-1', code: tired, codes: [tired, fatigue], modelValue: false } })
@@ -59,7 +57,7 @@ describe('changing the codebook', () => {
       'GET /api/studies/study-1/codes': { status: 200, body: { codes: [home] } },
       'POST /api/studies/study-1/codes': { status: 201, body: code({ id: 'rails', label: 'Grab rails', parentId: 'home', colour: '#D55E00' }) },
     })
-    vi.stubGlobal('visualViewport', viewport)
+    stubVisualViewport()
     const app = createTestApp()
     signInAs('coder')
     const { wrapper } = await mountView(CodebookView, { app, path: '/studies/study-1/codebook' })

@@ -1,13 +1,13 @@
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import AppFileField from '@/components/app/AppFileField.vue'
 import CodebookImportDialog from '@/components/coding/CodebookImportDialog.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const CSV = 'label,parent\r\nStair lift,Adaptations\r\nGrab rails,Feelings\r\n'
 
 async function chooseFile(replies: Parameters<typeof stubFetch>[0]) {
   const stub = stubFetch({ 'GET /api/auth/csrf': { status: 200, body: { token: 'csrf-1' } }, ...replies })
-  vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+  stubVisualViewport()
   const app = createTestApp()
   signInAs('coder')
   const { wrapper } = await mountView(CodebookImportDialog, { app, path: '/studies/study-1/codebook', props: { studyId: 'study-1', modelValue: false } })

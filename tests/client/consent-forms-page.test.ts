@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { ConsentForm } from '@shared/schemas/consent'
 import AppConfirmDialog from '@/components/app/AppConfirmDialog.vue'
 import ConsentFormsView from '@/views/consent/ConsentFormsView.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const version = (over: Partial<ConsentForm>): ConsentForm => ({
   id: 'f-1',
@@ -45,8 +45,7 @@ describe('the consent forms page', () => {
   it('lets the lead approve a draft after one confirmation that names the version it replaces', async () => {
     const wrapper = await openPage('lead')
     expect(button(wrapper, 'Add a version')).toBeDefined()
-    // happy-dom has no visualViewport, which Vuetify's overlay positioning reads.
-    vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+      stubVisualViewport()
     const confirm = wrapper.findComponent(AppConfirmDialog)
     expect(confirm.props('modelValue')).toBe(false)
     await button(wrapper, 'Approve this version')!.trigger('click')

@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { Interview } from '@shared/schemas/interviews'
 import InterviewBookingDialog from '@/components/interviews/InterviewBookingDialog.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const interview: Interview = {
   id: '11111111-1111-4111-8111-111111111111',
@@ -35,8 +35,7 @@ async function openDialog() {
     'GET /api/studies/study-1/interview-guides': { status: 200, body: { guides: [] } },
     [`PATCH /api/studies/study-1/interviews/${interview.id}`]: { status: 200, body: { ...interview, scheduledAt: '2027-03-20T16:00:00Z' } },
   })
-  // happy-dom has no visualViewport, which Vuetify's overlay positioning reads.
-  vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+  stubVisualViewport()
   const app = createTestApp()
   signInAs('coordinator')
   const { wrapper } = await mountView(InterviewBookingDialog, { app, path: '/studies/study-1/interviews', props: { studyId: 'study-1', modelValue: false, interview } })

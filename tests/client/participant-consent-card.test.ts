@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { ConsentForm, ConsentRecord, ParticipantConsentView } from '@shared/schemas/consent'
 import type { ParticipantDetail } from '@shared/schemas/recruitment'
 import ParticipantConsentCard from '@/components/consent/ParticipantConsentCard.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const MEANING = 'Consent to take part in the study as described in consent form version 2.0.'
 const form: ConsentForm = {
@@ -114,7 +114,7 @@ describe('the participant consent card', () => {
   })
 
   it('opens the verbal consent dialog on the approved version with no clause answered', async () => {
-    vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+    stubVisualViewport()
     const wrapper = await mountCard()
     await wrapper.findAll('button').find((b) => b.text().includes('Record verbal consent'))!.trigger('click')
     await flushPromises()

@@ -4,7 +4,7 @@ import type { RoundDetail, Theme } from '@shared/schemas/themes'
 import RoundOpenDialog from '@/components/themes/RoundOpenDialog.vue'
 import ReviewRoundsView from '@/views/themes/ReviewRoundsView.vue'
 import { useNotificationsStore } from '@/stores/notifications'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const theme = (id: string, name: string, parentId: string | null = null): Theme => ({
   id,
@@ -45,11 +45,9 @@ const opened: RoundDetail = {
   ],
   answers: [],
 }
-const viewport = { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} }
-
 async function openDialog(reply: { status: number; body: unknown }) {
   const stub = stubFetch({ 'GET /api/auth/csrf': { status: 200, body: { token: 'csrf-1' } }, 'POST /api/studies/study-1/review-rounds': reply })
-  vi.stubGlobal('visualViewport', viewport)
+  stubVisualViewport()
   const app = createTestApp()
   signInAs('lead')
   const { wrapper } = await mountView(RoundOpenDialog, { app, path: '/studies/study-1/review-rounds', props: { studyId: 'study-1', themes, characteristics, modelValue: false } })

@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import { VERDICT_WORDS, type Answer, type RoundDetail } from '@shared/schemas/themes'
 import ReviewRoundView from '@/views/themes/ReviewRoundView.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const answer = (over: Partial<Answer> & Pick<Answer, 'id' | 'themeId' | 'partnerId' | 'partnerName'>): Answer => ({
   verdict: 'rings_true',
@@ -39,15 +39,13 @@ const round: RoundDetail = {
     answer({ id: 'a-3', themeId: 'leaflets', partnerId: 'pp-1', partnerName: 'Partner Ash', verdict: 'needs_discussion' }),
   ],
 }
-const viewport = { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} }
-
 async function mountRound(extra: Parameters<typeof stubFetch>[0] = {}) {
   const stub = stubFetch({
     'GET /api/auth/csrf': { status: 200, body: { token: 'csrf-1' } },
     'GET /api/studies/study-1/review-rounds/round-1': { status: 200, body: round },
     ...extra,
   })
-  vi.stubGlobal('visualViewport', viewport)
+  stubVisualViewport()
   const app = createTestApp()
   signInAs('lead')
   const { wrapper } = await mountView(ReviewRoundView, { app, path: '/studies/study-1/review-rounds/round-1' })

@@ -76,4 +76,9 @@ export function stubFetch(handlers: Record<string, Reply | Reply[] | Error>) {
   return { calls, fetchStub }
 }
 
+/** happy-dom has no visualViewport, which Vuetify's overlays (dialogs, menus) read to position themselves. */
+export function stubVisualViewport(): void {
+  vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+}
+
 export { flushPromises }

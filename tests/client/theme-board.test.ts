@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { Code } from '@shared/schemas/coding'
 import type { Theme } from '@shared/schemas/themes'
 import ThemesView from '@/views/themes/ThemesView.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const code = (over: Partial<Code> & Pick<Code, 'id' | 'label'>): Code => ({
   parentId: null,
@@ -52,7 +52,7 @@ async function mountBoard(role: 'lead' | 'coder', list: Theme[], extra: Paramete
     'GET /api/studies/study-1/codes': { status: 200, body: { codes } },
     ...extra,
   })
-  vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+  stubVisualViewport()
   const app = createTestApp()
   signInAs(role)
   const { wrapper } = await mountView(ThemesView, { app, path: '/studies/study-1/themes' })

@@ -2,7 +2,7 @@ import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { Code } from '@shared/schemas/coding'
 import type { Theme } from '@shared/schemas/themes'
 import ThemesView from '@/views/themes/ThemesView.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const stairs: Code = {
   id: 'stairs',
@@ -74,7 +74,7 @@ async function openEditor(extra: Parameters<typeof stubFetch>[0] = {}) {
     },
     ...extra,
   })
-  vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+  stubVisualViewport()
   const app = createTestApp()
   signInAs('lead')
   const { wrapper } = await mountView(ThemesView, { app, path: '/studies/study-1/themes' })

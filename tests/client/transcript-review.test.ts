@@ -1,7 +1,7 @@
 import { afterEach, describe, expect, it, vi } from 'vitest'
 import type { Flag, TranscriptReview } from '@shared/schemas/interviews'
 import TranscriptReviewView from '@/views/transcripts/TranscriptReviewView.vue'
-import { createTestApp, flushPromises, mountView, signInAs, stubFetch } from './support'
+import { createTestApp, flushPromises, mountView, signInAs, stubFetch, stubVisualViewport } from './support'
 
 const text = 'I looked after Dana at home in Riverton.\n\nThat must have been hard.'
 const flag = (over: Partial<Flag>): Flag => ({ id: 'f-1', start: 15, end: 19, category: 'name', text: 'Dana', source: 'scanner', decision: 'pending', ...over })
@@ -32,7 +32,7 @@ async function mountReview(put: { status: number; body: unknown } = { status: 20
     [`GET ${PATH}`]: { status: 200, body: review([flag({}), riverton]) },
     [`PUT ${PATH}`]: put,
   })
-  vi.stubGlobal('visualViewport', { width: 1024, height: 768, offsetLeft: 0, offsetTop: 0, scale: 1, addEventListener() {}, removeEventListener() {} })
+  stubVisualViewport()
   const app = createTestApp()
   signInAs('coordinator')
   const { wrapper } = await mountView(TranscriptReviewView, { app, path: '/studies/study-1/transcripts/t-1/review' })
