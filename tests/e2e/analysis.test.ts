@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
 import { seedDemo } from '../../server/seed/demo.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 
 /** The lead opens the agreement and saturation views on the demo study (invented data). */
 let e2e: E2E
@@ -15,8 +15,7 @@ afterAll(() => e2e?.close())
 describe('analysis views', () => {
   it('shows agreement per code with its bands, where coders differ, and the saturation assessment', async () => {
     const page = await e2e.newPage()
-    await signIn(page, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/agreement`)
     const table = page.getByTestId('agreement-table')
     await table.getByText('Anger and guilt').waitFor()

@@ -4,7 +4,7 @@ import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
 import { seedDemo } from '../../server/seed/demo.js'
 import { approvedTranscript } from '../support/interviews.js'
 import { Client } from '../support/test-app.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 import { select } from './support/coding.js'
 
 /**
@@ -48,8 +48,7 @@ async function chooseCode(page: Page, label: string): Promise<void> {
 describe('coding a transcript', () => {
   it('applies two codes to a selected passage, keeps them after a reload, and keeps them from the second coder until comparison is on', async () => {
     const page = await e2e.newPage()
-    await signIn(page, e2e.baseUrl, 'coder1@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'coder1@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/transcripts/${transcriptId}/coding`)
     await page.getByTestId('coding-turn').first().waitFor()
     await select(page, PASSAGE)
@@ -74,8 +73,7 @@ describe('coding a transcript', () => {
     await page.close()
 
     const second = await e2e.newPage()
-    await signIn(second, e2e.baseUrl, 'coder2@heardwell.test', DEMO_PASSWORD)
-    await second.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(second, e2e.baseUrl, 'coder2@heardwell.test', DEMO_PASSWORD)
     await second.goto(`${e2e.baseUrl}/studies/${studyId}/transcripts/${transcriptId}/coding`)
     await second.getByTestId('coding-turn').first().waitFor()
     await second.getByText(/each coder sees only their own coding|has not switched on comparison/).waitFor()

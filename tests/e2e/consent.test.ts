@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
 import { seedDemo } from '../../server/seed/demo.js'
 import { linkIn, waitForMail } from '../support/mailbox.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 
 /**
  * The coordinator sends an e-consent link; the participant opens it from the e-mail, answers each
@@ -21,8 +21,7 @@ describe('electronic consent', () => {
   it('goes from the coordinator’s link to a signed consent with a receipt', async () => {
     const [p11] = await e2e.ctx.dataSource.query(`SELECT p.id, c.email, c.name FROM participants p JOIN participant_contacts c ON c.participant_id = p.id WHERE p.study_id = $1 AND p.pseudonym = 'P11'`, [studyId])
     const page = await e2e.newPage()
-    await signIn(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/participants/${p11.id}`)
     await page.getByRole('button', { name: 'Send an e-consent link' }).click()
     const mail = await waitForMail(p11.email, /Your consent form/)
@@ -48,8 +47,7 @@ describe('electronic consent', () => {
     const receipt = await waitForMail(p11.email, /Your signed consent/)
     expect(receipt.attachments.map((a) => a.filename)).toEqual(['consent-receipt.pdf'])
 
-    await signIn(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/participants/${p11.id}`)
     await page.getByText('Signed electronically by the participant', { exact: false }).first().waitFor()
     expect(await page.getByText('Consented', { exact: true }).first().isVisible()).toBe(true)

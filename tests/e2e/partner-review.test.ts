@@ -2,7 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
 import { seedDemo } from '../../server/seed/demo.js'
 import { waitForMail } from '../support/mailbox.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 
 /**
  * The lead opens a review round; the patient partner finds the e-mail in the fake mailbox, signs in,
@@ -20,8 +20,7 @@ afterAll(() => e2e?.close())
 describe('patient partner review', () => {
   it('the lead opens a round, the partner answers two themes from the e-mailed link, and the lead reads the answers', async () => {
     const lead = await e2e.newPage()
-    await signIn(lead, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
-    await lead.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(lead, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
     await lead.goto(`${e2e.baseUrl}/studies/${studyId}/themes`)
     await lead.getByText('Keeping watch at night').first().waitFor()
     await screenshot(lead, '26-themes')
@@ -41,8 +40,7 @@ describe('patient partner review', () => {
     const link = mail.text.match(/https?:\/\/\S+\/studies\/\S+\/review\/[0-9a-f-]+/)![0]
     const roundPath = new URL(link).pathname
     const partner = await e2e.newPage()
-    await signIn(partner, e2e.baseUrl, 'partner@heardwell.test', DEMO_PASSWORD)
-    await partner.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(partner, e2e.baseUrl, 'partner@heardwell.test', DEMO_PASSWORD)
     await partner.goto(`${e2e.baseUrl}${roundPath}`)
     const cards = partner.getByTestId('partner-theme')
     await cards.first().waitFor()
@@ -70,8 +68,7 @@ describe('patient partner review', () => {
     // one browser: the partner's sign-in replaced the lead's session, so the lead signs in again
     await lead.close()
     const back = await e2e.newPage()
-    await signIn(back, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
-    await back.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(back, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
     await back.goto(`${e2e.baseUrl}/studies/${studyId}/review-rounds/${roundId}`)
     const answers = back.getByTestId('round-answers')
     await answers.getByText('Yes, the nights were the hardest.').waitFor()

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_PASSWORD, DEMO_STUDY } from '../../server/seed/demo-data.js'
 import { seedDemo } from '../../server/seed/demo.js'
 import { waitForMail } from '../support/mailbox.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 
 /**
  * A person applies on the public study page once as an eligible caregiver and once as someone looking
@@ -72,8 +72,7 @@ describe('the public study page', () => {
     const care = await waitForMail(seeker.email, /Thank you for contacting/)
     expect(care.text).toMatch(/own doctor, nurse or care provider/)
 
-    await signIn(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/participants`)
     const eligibleRow = page.getByRole('row').filter({ hasText: eligible.email })
     const seekerRow = page.getByRole('row').filter({ hasText: seeker.email })
@@ -90,8 +89,7 @@ describe('the public study page', () => {
 
   it('shows the team a recruitment dashboard with the funnel, and a partner sees counts only', async () => {
     const page = await e2e.newPage()
-    await signIn(page, e2e.baseUrl, 'partner@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'partner@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/recruitment`)
     await page.getByText(/Enquired/).first().waitFor()
     await page.waitForTimeout(500) // the chart draws after its lazy module loads

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import Papa from 'papaparse'
 import { DEMO_PASSWORD } from '../../server/seed/demo-data.js'
 import { seedDemo } from '../../server/seed/demo.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 
 /** The lead opens the reports of the demo study and downloads CSVs (invented data). */
 let e2e: E2E
@@ -17,8 +17,7 @@ afterAll(() => e2e?.close())
 describe('reports', () => {
   it('shows the reports and downloads the recruitment flow and the characteristics as CSV', async () => {
     const page = await e2e.newPage()
-    await signIn(page, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'lead@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/reports`)
     await page.getByTestId('export-recruitment-flow').first().waitFor()
     await screenshot(page, '31-reports')

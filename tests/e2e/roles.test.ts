@@ -1,7 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { DEMO_ADMIN, DEMO_PASSWORD, DEMO_STUDY, DEMO_TEAM } from '../../server/seed/demo-data.js'
 import { seedDemo } from '../../server/seed/demo.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signIn, signInAndArrive, startE2E } from './support/browser.js'
 
 /** Each demo role signs in through the browser and sees only the sections its role may open. */
 let e2e: E2E
@@ -36,8 +36,7 @@ describe('signing in as each demo role', () => {
   for (const member of DEMO_TEAM) {
     it(`${member.email} (${member.role}) reaches the study overview with only the sections of that role`, async () => {
       const page = await e2e.newPage()
-      await signIn(page, e2e.baseUrl, member.email, DEMO_PASSWORD)
-      await page.waitForURL(/\/$|\/studies/)
+      await signInAndArrive(page, e2e.baseUrl, member.email, DEMO_PASSWORD)
       await page.goto(`${e2e.baseUrl}/studies/${studyId}`)
       await page.getByRole('heading', { name: DEMO_STUDY.title }).first().waitFor()
       const nav = page.getByRole('navigation', { name: 'Main' })
@@ -56,8 +55,7 @@ describe('signing in as each demo role', () => {
 
   it(`${DEMO_ADMIN.email} (site administrator) sees site administration and no study trail`, async () => {
     const page = await e2e.newPage()
-    await signIn(page, e2e.baseUrl, DEMO_ADMIN.email, DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, DEMO_ADMIN.email, DEMO_PASSWORD)
     const nav = page.getByRole('navigation', { name: 'Main' })
     await nav.getByText('Site administration').waitFor()
     await nav.getByText('Site administration').click()

@@ -9,7 +9,7 @@ import { approvedTranscript, doneInterview, uploadTranscript } from '../support/
 import { linkIn, waitForMail } from '../support/mailbox.js'
 import { ELIGIBLE_ANSWERS } from '../support/recruitment.js'
 import { Client } from '../support/test-app.js'
-import { screenshot, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, signInAndArrive, startE2E } from './support/browser.js'
 import { guard, injectionFindings, payload, shownText, showsAll } from './support/injection.js'
 
 /**
@@ -366,8 +366,7 @@ describe('script injection in typed text', () => {
         page = await e2e.newPage()
         watched = await guard(page)
         if (visit.as !== 'visitor') {
-          await signIn(page, e2e.baseUrl, ACCOUNTS[visit.as], DEMO_PASSWORD)
-          await page.waitForURL(/\/$|\/studies/)
+          await signInAndArrive(page, e2e.baseUrl, ACCOUNTS[visit.as], DEMO_PASSWORD)
         }
         signedInAs = visit.as
       }

@@ -4,7 +4,7 @@ import { seedDemo } from '../../server/seed/demo.js'
 import { buildDocx } from '../fixtures/transcripts/docx.js'
 import { consentedParticipant, doneInterview } from '../support/interviews.js'
 import { Client } from '../support/test-app.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 
 /**
  * The coordinator uploads a .docx with planted identifiers, reviews the scanner's flags and approves;
@@ -38,8 +38,7 @@ describe('transcript de-identification', () => {
       'Rowena Fairweather: I called (604) 555-0187 and wrote to rowena.f@example.org from my phone, and waited.',
     ])
     const page = await e2e.newPage()
-    await signIn(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
-    await page.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(page, e2e.baseUrl, 'coordinator@heardwell.test', DEMO_PASSWORD)
     await page.goto(`${e2e.baseUrl}/studies/${studyId}/interviews`)
     await page.getByRole('button', { name: `Upload a transcript of the interview with ${pseudonym}` }).click()
     await page.locator('input[type=file]').setInputFiles({ name: 'interview.docx', mimeType: 'application/vnd.openxmlformats-officedocument.wordprocessingml.document', buffer: docx })
@@ -56,8 +55,7 @@ describe('transcript de-identification', () => {
     await page.waitForLoadState('networkidle')
     await page.close()
     const coderPage = await e2e.newPage()
-    await signIn(coderPage, e2e.baseUrl, 'coder1@heardwell.test', DEMO_PASSWORD)
-    await coderPage.waitForURL(/\/$|\/studies/)
+    await signInAndArrive(coderPage, e2e.baseUrl, 'coder1@heardwell.test', DEMO_PASSWORD)
     await coderPage.goto(`${e2e.baseUrl}/studies/${studyId}/transcripts`)
     await coderPage.getByRole('link', { name: `Read ${pseudonym}’s transcript, version 1` }).click()
     await coderPage.getByText(/nobody explained the tablets/).waitFor()

@@ -6,7 +6,7 @@ import type { Page } from 'playwright-core'
 import { afterAll, afterEach, beforeAll, describe, expect, it } from 'vitest'
 import { buildDocx } from '../fixtures/transcripts/docx.js'
 import { linkIn, waitForMail } from '../support/mailbox.js'
-import { screenshot, seriousA11yViolations, signIn, startE2E, type E2E } from './support/browser.js'
+import { type E2E, screenshot, seriousA11yViolations, signInAndArrive, startE2E } from './support/browser.js'
 import { select } from './support/coding.js'
 import { keyboardGaps } from './support/keyboard.js'
 
@@ -69,8 +69,7 @@ async function look(page: Page, name: string): Promise<void> {
 }
 
 async function signInAs(page: Page, who: keyof typeof PEOPLE): Promise<void> {
-  await signIn(page, e2e.baseUrl, PEOPLE[who].email, PASSWORD)
-  await page.waitForURL((url) => url.pathname === '/' || url.pathname.startsWith('/studies'))
+  await signInAndArrive(page, e2e.baseUrl, PEOPLE[who].email, PASSWORD)
 }
 
 /** Follows the newest e-mailed link containing `path` as a signed-out visitor. */

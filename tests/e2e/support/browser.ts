@@ -96,3 +96,9 @@ export async function signIn(page: Page, baseUrl: string, email: string, passwor
   await page.getByLabel('Password', { exact: true }).fill(password)
   await page.getByRole('button', { name: 'Sign in' }).click()
 }
+
+/** Signs in and waits until the app has landed on the studies list or a study page. */
+export async function signInAndArrive(page: Page, baseUrl: string, email: string, password: string): Promise<void> {
+  await signIn(page, baseUrl, email, password)
+  await page.waitForURL((url) => url.pathname === '/' || url.pathname.startsWith('/studies'))
+}
