@@ -89,7 +89,7 @@ export function buildServices(deps: AppDeps) {
   const interviews = new InterviewService(dataSource, boss, audit, mail, consent)
   const guides = new InterviewGuideService(dataSource, storage, audit)
   const transcripts = new TranscriptService(dataSource, storage, audit, consent)
-  const codingScope = new CodingScope(dataSource, consent)
+  const codingScope = new CodingScope(consent)
   const codes = new CodeService(dataSource, audit, codingScope)
   const codeStructure = new CodeStructureService(dataSource, audit, codes)
   const codebookTransfer = new CodebookTransferService(dataSource, audit)

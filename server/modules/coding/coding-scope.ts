@@ -1,4 +1,3 @@
-import type { DataSource } from 'typeorm'
 import type { ConsentService } from '../consent/consent.service.js'
 
 /**
@@ -7,10 +6,7 @@ import type { ConsentService } from '../consent/consent.service.js'
  * counted or searched.
  */
 export class CodingScope {
-  constructor(
-    private readonly dataSource: DataSource,
-    private readonly consent: ConsentService,
-  ) {}
+  constructor(private readonly consent: ConsentService) {}
 
   /** Participants with an approved transcript in the study whose data may be coded. */
   async usableParticipants(studyId: string): Promise<string[]> {
